@@ -28,6 +28,7 @@ public sealed record ClaimSchema(
         ?? throw new KeyNotFoundException($"The schema has no field '{name}'.");
 
     /// <summary>Fields and derived values the model may learn from, in schema order.</summary>
+    [JsonIgnore]
     public IEnumerable<string> FeatureNames =>
         Fields.Where(f => f.Feature).Select(f => f.Name).Concat(Derived.Where(d => d.Feature).Select(d => d.Name));
 
