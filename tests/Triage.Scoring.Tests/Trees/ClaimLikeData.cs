@@ -25,7 +25,7 @@ internal static class ClaimLikeData
                 if (rng.NextDouble() < extraNaN) row[c] = double.NaN;
             }
             var logit = 0.8 * Value(row, 0) - 0.6 * Value(row, 1) + 0.5 * Value(row, 4) * Value(row, 2)
-                + (double.IsNaN(row[3]) ? 1.0 : 0.3 * row[3]) - 0.4 * Math.Abs(Value(row, 6)) + 0.3 * Normal(rng);
+                + (double.IsNaN(row[3]) ? 1.0 : 0.3 * row[3]) - 0.4 * Math.Abs(Value(row, Math.Min(6, columns - 1))) + 0.3 * Normal(rng);
             labels[r] = rng.NextDouble() < 1 / (1 + Math.Exp(-logit)) ? 1f : 0f;
         }
         return (x, labels);
