@@ -103,41 +103,79 @@ public sealed class TreeShapExplainer
             for (var i = 0; i < nz; i++) z0 *= Unsafe.Add(ref zerosZero, i);
             if (z0 == 0.0) continue;  // G ≡ 0: the leaf contributes to no attribution
 
-            // G(t) = z0 · Π over satisfied conditions (z + t), coefficients g[0..m].
-            g = z0;
-            for (var k = 0; k < m; k++)
-            {
-                var z = Unsafe.Add(ref onesZero, k);
-                Unsafe.Add(ref g, k + 1) = Unsafe.Add(ref g, k);
-                for (var j = k; j > 0; j--) Unsafe.Add(ref g, j) = Unsafe.Add(ref g, j) * z + Unsafe.Add(ref g, j - 1);
-                g *= z;
-            }
+            var scale = v * z0;
             ref var w = ref Unsafe.Add(ref weights, (end - start) * _stride);
-
-            // A failed condition i has o = 0: G / z_i weighted, times (0 − z_i), is the same for all of them.
-            if (nz > 0)
+            var sum = m switch
             {
-                var sum = 0.0;
-                for (var k = 0; k <= m; k++) sum += Unsafe.Add(ref g, k) * Unsafe.Add(ref w, k);
-                var share = -v * sum;
-                for (var i = 0; i < nz; i++) Unsafe.Add(ref phis, Unsafe.Add(ref zerosFeature, i)) += share;
-            }
+                // Few satisfied conditions are the common case: closed forms avoid short loops that mispredict.
+                0 => w,
+                1 => One(ref phis, ref onesZero, ref onesFeature, ref w, scale),
+                2 => Two(ref phis, ref onesZero, ref onesFeature, ref w, scale),
+                3 => Three(ref phis, ref onesZero, ref onesFeature, ref w, scale),
+                _ => Many(ref phis, ref onesZero, ref onesFeature, ref w, ref g, m, scale),
+            };
 
-            // A satisfied condition i: divide G by (z_i + t) from the top (stable for z_i <= 1), weight, times (1 − z_i).
-            for (var i = 0; i < m; i++)
-            {
-                var z = Unsafe.Add(ref onesZero, i);
-                var q = Unsafe.Add(ref g, m);
-                var acc = q * Unsafe.Add(ref w, m - 1);
-                for (var k = m - 1; k > 0; k--)
-                {
-                    q = Unsafe.Add(ref g, k) - z * q;
-                    acc += q * Unsafe.Add(ref w, k - 1);
-                }
-                Unsafe.Add(ref phis, Unsafe.Add(ref onesFeature, i)) += v * (1.0 - z) * acc;
-            }
+            // A failed condition i has o = 0: its (0 − z_i) · G/z_i weighted is the same for all of them.
+            var share = -scale * sum;
+            for (var i = 0; i < nz; i++) Unsafe.Add(ref phis, Unsafe.Add(ref zerosFeature, i)) += share;
         }
         return output;
+    }
+
+    // Each helper adds scale · (1 − z_i) · Σ_k q_k w_k to phi for every satisfied condition i, where
+    // Q = G / (z_i + t) and G(t) = Π over satisfied conditions (z + t), and returns Σ_k g_k w_k.
+
+    private static double One(ref double phi, ref double z, ref int f, ref double w, double scale)
+    {
+        var a = z;
+        Unsafe.Add(ref phi, f) += scale * (1 - a) * w;
+        return a * w + Unsafe.Add(ref w, 1);
+    }
+
+    private static double Two(ref double phi, ref double z, ref int f, ref double w, double scale)
+    {
+        double a = z, b = Unsafe.Add(ref z, 1), w0 = w, w1 = Unsafe.Add(ref w, 1);
+        Unsafe.Add(ref phi, f) += scale * (1 - a) * (b * w0 + w1);
+        Unsafe.Add(ref phi, Unsafe.Add(ref f, 1)) += scale * (1 - b) * (a * w0 + w1);
+        return a * b * w0 + (a + b) * w1 + Unsafe.Add(ref w, 2);
+    }
+
+    private static double Three(ref double phi, ref double z, ref int f, ref double w, double scale)
+    {
+        double a = z, b = Unsafe.Add(ref z, 1), c = Unsafe.Add(ref z, 2);
+        double w0 = w, w1 = Unsafe.Add(ref w, 1), w2 = Unsafe.Add(ref w, 2);
+        Unsafe.Add(ref phi, f) += scale * (1 - a) * (b * c * w0 + (b + c) * w1 + w2);
+        Unsafe.Add(ref phi, Unsafe.Add(ref f, 1)) += scale * (1 - b) * (a * c * w0 + (a + c) * w1 + w2);
+        Unsafe.Add(ref phi, Unsafe.Add(ref f, 2)) += scale * (1 - c) * (a * b * w0 + (a + b) * w1 + w2);
+        return a * b * c * w0 + (a * b + a * c + b * c) * w1 + (a + b + c) * w2 + Unsafe.Add(ref w, 3);
+    }
+
+    private static double Many(ref double phi, ref double onesZero, ref int onesFeature, ref double w, ref double g, int m, double scale)
+    {
+        g = 1.0;
+        for (var k = 0; k < m; k++)
+        {
+            var z = Unsafe.Add(ref onesZero, k);
+            Unsafe.Add(ref g, k + 1) = Unsafe.Add(ref g, k);
+            for (var j = k; j > 0; j--) Unsafe.Add(ref g, j) = Unsafe.Add(ref g, j) * z + Unsafe.Add(ref g, j - 1);
+            g *= z;
+        }
+        for (var i = 0; i < m; i++)
+        {
+            // Synthetic division from the top: errors shrink by z_i <= 1 at each step.
+            var z = Unsafe.Add(ref onesZero, i);
+            var q = Unsafe.Add(ref g, m);
+            var acc = q * Unsafe.Add(ref w, m - 1);
+            for (var k = m - 1; k > 0; k--)
+            {
+                q = Unsafe.Add(ref g, k) - z * q;
+                acc += q * Unsafe.Add(ref w, k - 1);
+            }
+            Unsafe.Add(ref phi, Unsafe.Add(ref onesFeature, i)) += scale * (1.0 - z) * acc;
+        }
+        var sum = 0.0;
+        for (var k = 0; k <= m; k++) sum += Unsafe.Add(ref g, k) * Unsafe.Add(ref w, k);
+        return sum;
     }
 
     /// <summary>Per-thread buffers, so rows allocate nothing.</summary>

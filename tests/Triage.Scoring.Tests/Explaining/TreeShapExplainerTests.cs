@@ -112,6 +112,20 @@ public class TreeShapExplainerTests
     }
 
     [Fact]
+    public void Explaining_a_row_allocates_nothing()
+    {
+        var random = new RandomTrees(31);
+        var ensemble = random.Ensemble(50, 12, 9);
+        var explainer = new TreeShapExplainer(ensemble);
+        var rows = Enumerable.Range(0, 200).Select(_ => random.Row(12)).ToArray();
+        var phi = new double[12];
+        explainer.Explain(rows[0], phi); // first call on this thread sizes its scratch buffers
+        var before = GC.GetAllocatedBytesForCurrentThread();
+        foreach (var x in rows) explainer.Explain(x, phi);
+        Assert.Equal(before, GC.GetAllocatedBytesForCurrentThread());
+    }
+
+    [Fact]
     public void Single_leaf_trees_only_move_the_expected_value()
     {
         var leaf = new RegressionTree([], [], [], [], [], [], [], [2.5], [7]);
