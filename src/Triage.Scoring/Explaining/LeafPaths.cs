@@ -79,13 +79,13 @@ internal sealed class LeafPaths
             var at = _path.FindIndex(e => e.Feature == feature);
             var element = at >= 0
                 ? _path[at]
-                : new PathElement { Lower = double.NaN, Upper = double.PositiveInfinity, ZeroFraction = 1.0, Feature = feature, NaNSatisfies = true, ZeroSatisfies = true };
+                : new PathElement { Lower = double.NaN, Upper = double.PositiveInfinity, ZeroFraction = 1.0, Feature = feature, Special = PathElement.NaNBit | PathElement.ZeroBit };
             var before = element;
             // Away from NaN and 0 every routing rule is the plain "value <= threshold" test.
             if (goLeft) element.Upper = Math.Min(element.Upper, threshold);
             else element.Lower = double.IsNaN(element.Lower) ? threshold : Math.Max(element.Lower, threshold);
-            element.NaNSatisfies &= tree.GoesLeft(node, double.NaN) == goLeft;
-            element.ZeroSatisfies &= tree.GoesLeft(node, 0.0) == goLeft;
+            if (tree.GoesLeft(node, double.NaN) != goLeft) element.Special &= ~PathElement.NaNBit;
+            if (tree.GoesLeft(node, 0.0) != goLeft) element.Special &= ~PathElement.ZeroBit;
             element.ZeroFraction *= childCover / tree.NodeCover[node];
             if (at >= 0) _path[at] = element;
             else _path.Add(element);

@@ -17,13 +17,21 @@ internal struct PathElement
 
     public int Feature;
 
-    /// <summary>NaN and 0.0 can be routed by a rule of their own (missing-value routing), so their answer is stored.</summary>
-    public bool NaNSatisfies;
+    /// <summary>
+    /// NaN and 0.0 can be routed by a rule of their own (missing-value routing), so their answers are
+    /// stored: bit 1 = NaN satisfies the condition, bit 2 = 0.0 does.
+    /// </summary>
+    public int Special;
 
-    public bool ZeroSatisfies;
+    public const int NaNBit = 2, ZeroBit = 4;
 
-    public readonly bool IsSatisfiedBy(double value) =>
-        double.IsNaN(value) ? NaNSatisfies
-        : value == 0.0 ? ZeroSatisfies
-        : !(value <= Lower) && value <= Upper;
+    /// <summary>How a value is tested: 0 against the interval, 1 as NaN, 2 as zero (the bit to read from Special).</summary>
+    public static int KindOf(double value) => double.IsNaN(value) ? 1 : value == 0.0 ? 2 : 0;
+
+    /// <summary>1 when a value of the given kind satisfies the condition, else 0; free of data-dependent branches.</summary>
+    public readonly int Satisfied(double value, int kind)
+    {
+        var inRange = (!(value <= Lower) & (value <= Upper)) ? 1 : 0;
+        return ((inRange | Special) >> kind) & 1;
+    }
 }

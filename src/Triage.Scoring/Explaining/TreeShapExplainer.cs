@@ -1,3 +1,5 @@
+using System.Runtime.CompilerServices;
+using System.Runtime.InteropServices;
 using Triage.Scoring.Trees;
 
 namespace Triage.Scoring.Explaining;
@@ -59,88 +61,98 @@ public sealed class TreeShapExplainer
         phi = phi[..FeatureCount];
         phi.Clear();
 
-        var scratch = Scratch.For(_paths.MaxLength, ref t_scratch);
-        var onesZero = scratch.OnesZero;
-        var onesFeature = scratch.OnesFeature;
-        var zerosFeature = scratch.ZerosFeature;
-        var g = scratch.Poly;
-        var elements = _paths.Elements;
-        var starts = _paths.LeafStart;
-        var values = _paths.LeafValue;
-        var weights = _weights;
-        var output = _paths.Constant;
+        var scratch = Scratch.For(_paths.MaxLength, FeatureCount, ref t_scratch);
+        var kinds = scratch.Kinds;
+        for (var f = 0; f < FeatureCount; f++) kinds[f] = PathElement.KindOf(x[f]);
 
-        for (var leaf = 0; leaf < values.Length; leaf++)
+        // Refs instead of indexers: the loops below are the hot path and their bounds are known.
+        ref var xs = ref MemoryMarshal.GetReference(x);
+        ref var phis = ref MemoryMarshal.GetReference(phi);
+        ref var kind = ref MemoryMarshal.GetArrayDataReference(kinds);
+        ref var onesZero = ref MemoryMarshal.GetArrayDataReference(scratch.OnesZero);
+        ref var onesFeature = ref MemoryMarshal.GetArrayDataReference(scratch.OnesFeature);
+        ref var zerosZero = ref MemoryMarshal.GetArrayDataReference(scratch.ZerosZero);
+        ref var zerosFeature = ref MemoryMarshal.GetArrayDataReference(scratch.ZerosFeature);
+        ref var g = ref MemoryMarshal.GetArrayDataReference(scratch.Poly);
+        ref var elements = ref MemoryMarshal.GetArrayDataReference(_paths.Elements);
+        ref var starts = ref MemoryMarshal.GetArrayDataReference(_paths.LeafStart);
+        ref var values = ref MemoryMarshal.GetArrayDataReference(_paths.LeafValue);
+        ref var weights = ref MemoryMarshal.GetArrayDataReference(_weights);
+        var output = _paths.Constant;
+        var leaves = _paths.LeafCount;
+
+        for (var leaf = 0; leaf < leaves; leaf++)
         {
-            int start = starts[leaf], end = starts[leaf + 1];
-            var z0 = 1.0;
+            int start = Unsafe.Add(ref starts, leaf), end = Unsafe.Add(ref starts, leaf + 1);
             int m = 0, nz = 0;
             for (var e = start; e < end; e++)
             {
-                ref readonly var el = ref elements[e];
-                if (el.IsSatisfiedBy(x[el.Feature]))
-                {
-                    onesZero[m] = el.ZeroFraction;
-                    onesFeature[m++] = el.Feature;
-                }
-                else
-                {
-                    z0 *= el.ZeroFraction;
-                    zerosFeature[nz++] = el.Feature;
-                }
+                ref readonly var el = ref Unsafe.Add(ref elements, e);
+                var one = el.Satisfied(Unsafe.Add(ref xs, el.Feature), Unsafe.Add(ref kind, el.Feature));
+                // Write to both lists and advance one: no branch on the (unpredictable) outcome.
+                Unsafe.Add(ref onesZero, m) = el.ZeroFraction;
+                Unsafe.Add(ref onesFeature, m) = el.Feature;
+                Unsafe.Add(ref zerosZero, nz) = el.ZeroFraction;
+                Unsafe.Add(ref zerosFeature, nz) = el.Feature;
+                m += one;
+                nz += one ^ 1;
             }
-            var v = values[leaf];
+            var v = Unsafe.Add(ref values, leaf);
             if (nz == 0) output += v; // every condition holds: the row lands in this leaf
+            var z0 = 1.0;
+            for (var i = 0; i < nz; i++) z0 *= Unsafe.Add(ref zerosZero, i);
             if (z0 == 0.0) continue;  // G ≡ 0: the leaf contributes to no attribution
 
             // G(t) = z0 · Π over satisfied conditions (z + t), coefficients g[0..m].
-            g[0] = z0;
+            g = z0;
             for (var k = 0; k < m; k++)
             {
-                var z = onesZero[k];
-                g[k + 1] = g[k];
-                for (var j = k; j > 0; j--) g[j] = g[j] * z + g[j - 1];
-                g[0] *= z;
+                var z = Unsafe.Add(ref onesZero, k);
+                Unsafe.Add(ref g, k + 1) = Unsafe.Add(ref g, k);
+                for (var j = k; j > 0; j--) Unsafe.Add(ref g, j) = Unsafe.Add(ref g, j) * z + Unsafe.Add(ref g, j - 1);
+                g *= z;
             }
-            var w = weights.AsSpan((end - start) * _stride, _stride);
+            ref var w = ref Unsafe.Add(ref weights, (end - start) * _stride);
 
             // A failed condition i has o = 0: G / z_i weighted, times (0 − z_i), is the same for all of them.
             if (nz > 0)
             {
                 var sum = 0.0;
-                for (var k = 0; k <= m; k++) sum += g[k] * w[k];
+                for (var k = 0; k <= m; k++) sum += Unsafe.Add(ref g, k) * Unsafe.Add(ref w, k);
                 var share = -v * sum;
-                for (var i = 0; i < nz; i++) phi[zerosFeature[i]] += share;
+                for (var i = 0; i < nz; i++) Unsafe.Add(ref phis, Unsafe.Add(ref zerosFeature, i)) += share;
             }
 
             // A satisfied condition i: divide G by (z_i + t) from the top (stable for z_i <= 1), weight, times (1 − z_i).
             for (var i = 0; i < m; i++)
             {
-                var z = onesZero[i];
-                var q = g[m];
-                var acc = q * w[m - 1];
+                var z = Unsafe.Add(ref onesZero, i);
+                var q = Unsafe.Add(ref g, m);
+                var acc = q * Unsafe.Add(ref w, m - 1);
                 for (var k = m - 1; k > 0; k--)
                 {
-                    q = g[k] - z * q;
-                    acc += q * w[k - 1];
+                    q = Unsafe.Add(ref g, k) - z * q;
+                    acc += q * Unsafe.Add(ref w, k - 1);
                 }
-                phi[onesFeature[i]] += v * (1.0 - z) * acc;
+                Unsafe.Add(ref phis, Unsafe.Add(ref onesFeature, i)) += v * (1.0 - z) * acc;
             }
         }
         return output;
     }
 
     /// <summary>Per-thread buffers, so rows allocate nothing.</summary>
-    private sealed class Scratch(int capacity)
+    private sealed class Scratch(int capacity, int features)
     {
-        public double[] OnesZero { get; } = new double[capacity];
-        public int[] OnesFeature { get; } = new int[capacity];
-        public int[] ZerosFeature { get; } = new int[capacity];
+        public double[] OnesZero { get; } = new double[capacity + 1];
+        public int[] OnesFeature { get; } = new int[capacity + 1];
+        public double[] ZerosZero { get; } = new double[capacity + 1];
+        public int[] ZerosFeature { get; } = new int[capacity + 1];
         public double[] Poly { get; } = new double[capacity + 1];
+        public int[] Kinds { get; } = new int[features];
 
-        public static Scratch For(int capacity, ref Scratch? slot)
+        public static Scratch For(int capacity, int features, ref Scratch? slot)
         {
-            if (slot is null || slot.OnesZero.Length < capacity) slot = new Scratch(capacity);
+            if (slot is null || slot.Poly.Length <= capacity || slot.Kinds.Length < features) slot = new Scratch(capacity, features);
             return slot;
         }
     }

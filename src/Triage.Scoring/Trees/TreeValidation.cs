@@ -1,8 +1,9 @@
-using Triage.Scoring.Trees;
+namespace Triage.Scoring.Trees;
 
-namespace Triage.Scoring.Explaining;
-
-/// <summary>Rejects ensembles the explainer cannot treat exactly, naming the tree and node.</summary>
+/// <summary>
+/// Rejects ensembles that are not well-formed binary trees with usable covers (what exact TreeSHAP
+/// needs), naming the tree and node.
+/// </summary>
 internal static class TreeValidation
 {
     public static void Check(TreeEnsemble ensemble)
