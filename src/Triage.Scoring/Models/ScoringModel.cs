@@ -56,11 +56,8 @@ public sealed class ScoringModel
 
     public Explanation Explain(IReadOnlyDictionary<string, string?> claim)
     {
-        var x = Layout.Encode(claim);
-        var phi = new double[Layout.Count];
-        var logOdds = ExplainColumns(x, phi);
         var byField = new double[Fields.Count];
-        for (var j = 0; j < phi.Length; j++) byField[Layout.FieldOfColumn[j]] += phi[j];
+        var logOdds = ExplainFields(claim, byField);
 
         var probability = Sigmoid(logOdds);
         var total = byField.Sum();
@@ -74,6 +71,20 @@ public sealed class ScoringModel
             drivers[f] = new Driver(Fields[f], Layout.Base.DisplayName(Fields[f]), valueText, byField[f], byField[f] * pointsPerLogOdds, comparison);
         }
         return new Explanation(BaseValue, logOdds, probability, [.. drivers.OrderByDescending(d => d.Contribution)]);
+    }
+
+    /// <summary>
+    /// Log-odds contributions per field (in <see cref="Fields"/> order) without the wording, for bulk
+    /// use; returns the log-odds (= <see cref="BaseValue"/> + Σ contributions).
+    /// </summary>
+    public double ExplainFields(IReadOnlyDictionary<string, string?> claim, Span<double> byField)
+    {
+        var x = Layout.Encode(claim);
+        var phi = new double[Layout.Count];
+        var logOdds = ExplainColumns(x, phi);
+        byField[..Fields.Count].Clear();
+        for (var j = 0; j < phi.Length; j++) byField[Layout.FieldOfColumn[j]] += phi[j];
+        return logOdds;
     }
 
     /// <summary>Column-level attributions in log-odds; returns the log-odds.</summary>
