@@ -12,6 +12,6 @@ public sealed record Explanation(double BaseValue, double LogOdds, double Probab
 }
 
 /// <param name="Contribution">In log-odds.</param>
-/// <param name="EffectPoints">In probability points: the probability change apportioned to this field (docs/explanations.md).</param>
+/// <param name="EffectPoints">In percentage points (0.05 of probability = 5): the change from the base probability, apportioned to this field by its contribution (docs/explanations.md).</param>
 /// <param name="Comparison">This claim's value next to the training claims, in plain words.</param>
 public sealed record Driver(string Field, string DisplayName, string ValueText, double Contribution, double EffectPoints, string Comparison);

@@ -22,6 +22,7 @@ public sealed class ScoringModel
         Part = part;
         Stats = stats;
         MlNetModel = mlNetModel;
+        if (part.Trees is null && part.Linear is null) throw new InvalidDataException("The explainer part holds neither trees nor a linear model.");
         Layout = new FeatureLayout(schema, part.Missing, part.Imputation);
         var expected = Layout.Columns.Select(c => c.Name).ToList();
         if (!expected.SequenceEqual(part.Columns.Select(c => c.Name)))
@@ -33,7 +34,6 @@ public sealed class ScoringModel
         _statsByField = [.. Layout.Base.Fields.Select(f => stats.FirstOrDefault(s => s.Field == f)
             ?? throw new InvalidDataException($"Field statistics are missing for field '{f}'."))];
         if (part.Trees is not null) _shap = new TreeShapExplainer(part.Trees);
-        else if (part.Linear is null) throw new InvalidDataException("The explainer part holds neither trees nor a linear model.");
         BaseValue = _shap?.ExpectedValue ?? part.Linear!.ExpectedValue;
     }
 

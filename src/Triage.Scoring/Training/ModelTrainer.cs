@@ -46,22 +46,18 @@ public sealed class ModelTrainer(IOptions<ScoringOptions> options)
         ct.ThrowIfCancellationRequested();
 
         progress?.Report(new("Checking on the holdout", 0.8));
-        var part = new ExplainerPart(layout.Columns, missing, fitted.Trees, fitted.Linear, imputation);
-        var stats = FieldStats.Compute(schema, [.. train.Select(r => r.Values)]);
-        var draft = new ScoringModel(Placeholder(request, kind), schema, part, stats, SaveMlNet(ml, fitted, layout.Count));
         var holdoutX = Encode(features, holdout, holdoutIdx).Select(layout.Complete).ToList();
-        var p = holdoutX.Select(x => ScoringModel.Sigmoid(draft.LogOdds(x))).ToList();
+        var p = holdoutX.Select(x => ScoringModel.Sigmoid(fitted.Trees?.Predict(x) ?? fitted.Linear!.Predict(x))).ToList();
         var y = holdout.Select(r => r.IsFraud).ToList();
         var metrics = new HoldoutMetrics(BinaryMetrics.RocAuc(p, y), BinaryMetrics.AveragePrecision(p, y), BinaryMetrics.Brier(p, y), BinaryMetrics.LogLoss(p, y));
 
         var metadata = new ModelMetadata(request.Version, kind, DateTime.UtcNow, TrainingDataHash.Compute(schema, rows),
             train.Count, holdout.Count, train.Sum(r => r.IsFraud ? r.Weight : 0) / train.Sum(r => r.Weight), metrics, request.TrainedBy);
+        var part = new ExplainerPart(layout.Columns, missing, fitted.Trees, fitted.Linear, imputation);
+        var model = new ScoringModel(metadata, schema, part, FieldStats.Compute(schema, [.. train.Select(r => r.Values)]), SaveMlNet(ml, fitted, layout.Count));
         progress?.Report(new("Done", 1.0));
-        return new ScoringModel(metadata, schema, part, stats, draft.MlNetModel);
+        return model;
     }
-
-    private static ModelMetadata Placeholder(TrainingRequest request, TrainerKind kind) =>
-        new(request.Version, kind, DateTime.UtcNow, "", 0, 0, 0, new(double.NaN, double.NaN, double.NaN, double.NaN), request.TrainedBy);
 
     private static List<double[]> Encode(ClaimFeatures features, List<LabelledClaim> rows, List<int> index)
     {

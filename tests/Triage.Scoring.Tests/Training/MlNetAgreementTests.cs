@@ -57,11 +57,20 @@ public class MlNetAgreementTests(TrainedModels models)
     }
 
     [Fact]
-    public void Fast_tree_makes_no_categorical_splits()
+    public void Fast_tree_makes_numeric_splits_only_on_one_hot_columns()
     {
-        // Conversion refuses categorical splits; one-hot numeric columns keep ML.NET from making them.
-        var trees = models[TrainerKind.FastTree].Part.Trees!;
-        Assert.NotEmpty(trees.Trees);
-        Assert.All(trees.Trees, t => Assert.Equal(t.InternalCount + 1, t.LeafValue.Length));
+        // Read from the ML.NET 5.0.1 model itself: no tree uses a categorical split, so every split is
+        // a plain threshold our flat trees reproduce.
+        var rows = models.Rows.Take(1500).ToList();
+        var layout = models[TrainerKind.FastTree].Layout;
+        var x = rows.Select(r => layout.Encode(r.Values)).ToList();
+        var fitted = Triage.Scoring.Training.MlNetTraining.Fit(new Microsoft.ML.MLContext(7), TrainerKind.FastTree, TrainedModels.Options,
+            x, [.. rows.Select(r => r.IsFraud)], [.. rows.Select(r => r.Weight)], layout.Count);
+        var predictor = (Microsoft.ML.Data.BinaryPredictionTransformer<Microsoft.ML.Calibrators.CalibratedModelParametersBase<
+            Microsoft.ML.Trainers.FastTree.FastTreeBinaryModelParameters, Microsoft.ML.Calibrators.PlattCalibrator>>)fitted.MlNet;
+        var trees = predictor.Model.SubModel.TrainedTreeEnsemble.Trees;
+        Assert.NotEmpty(trees);
+        Assert.All(trees, t => Assert.DoesNotContain(true, t.CategoricalSplitFlags));
+        Assert.Contains(trees, t => t.NumericalSplitFeatureIndexes.Any(f => layout.Columns[f].Kind == Triage.Scoring.Features.ColumnKind.Level));
     }
 }
