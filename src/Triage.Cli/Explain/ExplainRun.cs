@@ -34,7 +34,7 @@ internal sealed class ExplainRun(RowExplainer explainer, int batchSize)
                     new TaskDescriptionColumn(), new ProgressBarColumn(), new PercentageColumn(), new ElapsedTimeColumn())
                     .Start(ctx =>
                     {
-                        var task = ctx.AddTask($"Explaining {Path.GetFileName(inputPath)}", maxValue: Math.Max(1, input.Length));
+                        var task = ctx.AddTask($"Explaining {Markup.Escape(Path.GetFileName(inputPath))}", maxValue: Math.Max(1, input.Length));
                         var batch = new List<string[]>(batchSize);
                         while (true)
                         {

@@ -68,7 +68,7 @@ public sealed class ClaimFeatures
     public void Encode(IReadOnlyDictionary<string, string?> claim, Span<double> x)
     {
         foreach (var w in _writers) w(claim, x);
-        for (var i = 0; i < x.Length; i++) x[i] = (float)x[i];
+        for (var i = 0; i < Count; i++) x[i] = (float)x[i];
     }
 
     public double[] Encode(IReadOnlyDictionary<string, string?> claim)
