@@ -3,5 +3,6 @@ using System.CommandLine;
 // One sub-command per feature folder; each folder exposes a static Create().
 var root = new RootCommand("Triage: claims fraud triage from the command line.");
 root.Subcommands.Add(Triage.Cli.Demo.DemoCommand.Create());
+root.Subcommands.Add(Triage.Cli.Explain.ExplainCommand.Create());
 
 return await root.Parse(args).InvokeAsync();
