@@ -2,6 +2,7 @@ using Microsoft.AspNetCore.Identity;
 using Microsoft.EntityFrameworkCore;
 using Microsoft.Extensions.Configuration;
 using Microsoft.Extensions.DependencyInjection;
+using Microsoft.Extensions.DependencyInjection.Extensions;
 using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Options;
 using Triage.Cases.Domain;
@@ -27,6 +28,7 @@ public static class CasesSetup
         s.AddSingleton<IValidateOptions<StorageOptions>, StorageOptionsValidator>();
         s.AddSingleton<IValidateOptions<DemoOptions>, DemoOptionsValidator>();
         s.AddSingleton<TriagePaths>();
+        s.TryAddSingleton(TimeProvider.System);
 
         // The provider decides the context type, so it is read now; everything else is read when used.
         var provider = b.Configuration[$"{StorageOptions.Section}:Provider"];
