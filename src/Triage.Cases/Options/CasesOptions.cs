@@ -13,8 +13,6 @@ public sealed class StorageOptions
     [Required] public string DataFolder { get; set; } = "data";
     /// <summary>Required for Postgres; for SQLite it overrides the file under DataFolder when set.</summary>
     public string? ConnectionString { get; set; }
-
-    public StorageProvider ProviderKind => Enum.Parse<StorageProvider>(Provider, ignoreCase: true);
 }
 
 public sealed class DemoOptions

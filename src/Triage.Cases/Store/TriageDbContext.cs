@@ -98,7 +98,13 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
             r.Property(x => x.Direction).HasConversion<string>().HasMaxLength(16);
             r.Property(x => x.ConditionOp).HasConversion<string>().HasMaxLength(16);
             r.Property(x => x.Field).HasMaxLength(64);
-            r.OwnsMany(x => x.Checks, c => c.ToTable("PlaybookChecks"));
+            r.OwnsMany(x => x.Checks, c =>
+            {
+                // A single-column key: SQLite cannot generate values inside a composite key.
+                c.ToTable("PlaybookChecks");
+                c.Property<int>("Id");
+                c.HasKey("Id");
+            });
         });
     }
 

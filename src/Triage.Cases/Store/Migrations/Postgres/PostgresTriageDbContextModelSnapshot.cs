@@ -846,9 +846,6 @@ namespace Triage.Cases.Store.Migrations.Postgres
                 {
                     b.OwnsMany("Triage.Cases.Domain.PlaybookCheck", "Checks", b1 =>
                         {
-                            b1.Property<int>("PlaybookRuleId")
-                                .HasColumnType("integer");
-
                             b1.Property<int>("Id")
                                 .ValueGeneratedOnAdd()
                                 .HasColumnType("integer");
@@ -859,11 +856,16 @@ namespace Triage.Cases.Store.Migrations.Postgres
                                 .IsRequired()
                                 .HasColumnType("text");
 
+                            b1.Property<int>("PlaybookRuleId")
+                                .HasColumnType("integer");
+
                             b1.Property<string>("Title")
                                 .IsRequired()
                                 .HasColumnType("text");
 
-                            b1.HasKey("PlaybookRuleId", "Id");
+                            b1.HasKey("Id");
+
+                            b1.HasIndex("PlaybookRuleId");
 
                             b1.ToTable("PlaybookChecks", (string)null);
 

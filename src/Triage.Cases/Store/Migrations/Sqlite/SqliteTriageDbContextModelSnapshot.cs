@@ -817,9 +817,6 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                 {
                     b.OwnsMany("Triage.Cases.Domain.PlaybookCheck", "Checks", b1 =>
                         {
-                            b1.Property<int>("PlaybookRuleId")
-                                .HasColumnType("INTEGER");
-
                             b1.Property<int>("Id")
                                 .ValueGeneratedOnAdd()
                                 .HasColumnType("INTEGER");
@@ -828,11 +825,16 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                                 .IsRequired()
                                 .HasColumnType("TEXT");
 
+                            b1.Property<int>("PlaybookRuleId")
+                                .HasColumnType("INTEGER");
+
                             b1.Property<string>("Title")
                                 .IsRequired()
                                 .HasColumnType("TEXT");
 
-                            b1.HasKey("PlaybookRuleId", "Id");
+                            b1.HasKey("Id");
+
+                            b1.HasIndex("PlaybookRuleId");
 
                             b1.ToTable("PlaybookChecks", (string)null);
 

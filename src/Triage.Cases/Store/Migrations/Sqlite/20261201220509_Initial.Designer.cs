@@ -11,7 +11,7 @@ using Triage.Cases.Store;
 namespace Triage.Cases.Store.Migrations.Sqlite
 {
     [DbContext(typeof(SqliteTriageDbContext))]
-    [Migration("20261201220017_Initial")]
+    [Migration("20261201220509_Initial")]
     partial class Initial
     {
         /// <inheritdoc />
@@ -820,9 +820,6 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                 {
                     b.OwnsMany("Triage.Cases.Domain.PlaybookCheck", "Checks", b1 =>
                         {
-                            b1.Property<int>("PlaybookRuleId")
-                                .HasColumnType("INTEGER");
-
                             b1.Property<int>("Id")
                                 .ValueGeneratedOnAdd()
                                 .HasColumnType("INTEGER");
@@ -831,11 +828,16 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                                 .IsRequired()
                                 .HasColumnType("TEXT");
 
+                            b1.Property<int>("PlaybookRuleId")
+                                .HasColumnType("INTEGER");
+
                             b1.Property<string>("Title")
                                 .IsRequired()
                                 .HasColumnType("TEXT");
 
-                            b1.HasKey("PlaybookRuleId", "Id");
+                            b1.HasKey("Id");
+
+                            b1.HasIndex("PlaybookRuleId");
 
                             b1.ToTable("PlaybookChecks", (string)null);
 

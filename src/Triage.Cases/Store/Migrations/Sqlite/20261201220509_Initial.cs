@@ -274,14 +274,15 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                 name: "PlaybookChecks",
                 columns: table => new
                 {
-                    PlaybookRuleId = table.Column<int>(type: "INTEGER", nullable: false),
-                    Id = table.Column<int>(type: "INTEGER", nullable: false),
+                    Id = table.Column<int>(type: "INTEGER", nullable: false)
+                        .Annotation("Sqlite:Autoincrement", true),
                     Title = table.Column<string>(type: "TEXT", nullable: false),
-                    Detail = table.Column<string>(type: "TEXT", nullable: false)
+                    Detail = table.Column<string>(type: "TEXT", nullable: false),
+                    PlaybookRuleId = table.Column<int>(type: "INTEGER", nullable: false)
                 },
                 constraints: table =>
                 {
-                    table.PrimaryKey("PK_PlaybookChecks", x => new { x.PlaybookRuleId, x.Id });
+                    table.PrimaryKey("PK_PlaybookChecks", x => x.Id);
                     table.ForeignKey(
                         name: "FK_PlaybookChecks_PlaybookRules_PlaybookRuleId",
                         column: x => x.PlaybookRuleId,
@@ -561,6 +562,11 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                 table: "ModelVersions",
                 column: "Version",
                 unique: true);
+
+            migrationBuilder.CreateIndex(
+                name: "IX_PlaybookChecks_PlaybookRuleId",
+                table: "PlaybookChecks",
+                column: "PlaybookRuleId");
 
             migrationBuilder.CreateIndex(
                 name: "IX_Verdicts_AmendsVerdictId",

@@ -275,15 +275,15 @@ namespace Triage.Cases.Store.Migrations.Postgres
                 name: "PlaybookChecks",
                 columns: table => new
                 {
-                    PlaybookRuleId = table.Column<int>(type: "integer", nullable: false),
                     Id = table.Column<int>(type: "integer", nullable: false)
                         .Annotation("Npgsql:ValueGenerationStrategy", NpgsqlValueGenerationStrategy.IdentityByDefaultColumn),
                     Title = table.Column<string>(type: "text", nullable: false),
-                    Detail = table.Column<string>(type: "text", nullable: false)
+                    Detail = table.Column<string>(type: "text", nullable: false),
+                    PlaybookRuleId = table.Column<int>(type: "integer", nullable: false)
                 },
                 constraints: table =>
                 {
-                    table.PrimaryKey("PK_PlaybookChecks", x => new { x.PlaybookRuleId, x.Id });
+                    table.PrimaryKey("PK_PlaybookChecks", x => x.Id);
                     table.ForeignKey(
                         name: "FK_PlaybookChecks_PlaybookRules_PlaybookRuleId",
                         column: x => x.PlaybookRuleId,
@@ -563,6 +563,11 @@ namespace Triage.Cases.Store.Migrations.Postgres
                 table: "ModelVersions",
                 column: "Version",
                 unique: true);
+
+            migrationBuilder.CreateIndex(
+                name: "IX_PlaybookChecks_PlaybookRuleId",
+                table: "PlaybookChecks",
+                column: "PlaybookRuleId");
 
             migrationBuilder.CreateIndex(
                 name: "IX_Verdicts_AmendsVerdictId",

@@ -12,7 +12,7 @@ using Triage.Cases.Store;
 namespace Triage.Cases.Store.Migrations.Postgres
 {
     [DbContext(typeof(PostgresTriageDbContext))]
-    [Migration("20261201220023_Initial")]
+    [Migration("20261201220513_Initial")]
     partial class Initial
     {
         /// <inheritdoc />
@@ -849,9 +849,6 @@ namespace Triage.Cases.Store.Migrations.Postgres
                 {
                     b.OwnsMany("Triage.Cases.Domain.PlaybookCheck", "Checks", b1 =>
                         {
-                            b1.Property<int>("PlaybookRuleId")
-                                .HasColumnType("integer");
-
                             b1.Property<int>("Id")
                                 .ValueGeneratedOnAdd()
                                 .HasColumnType("integer");
@@ -862,11 +859,16 @@ namespace Triage.Cases.Store.Migrations.Postgres
                                 .IsRequired()
                                 .HasColumnType("text");
 
+                            b1.Property<int>("PlaybookRuleId")
+                                .HasColumnType("integer");
+
                             b1.Property<string>("Title")
                                 .IsRequired()
                                 .HasColumnType("text");
 
-                            b1.HasKey("PlaybookRuleId", "Id");
+                            b1.HasKey("Id");
+
+                            b1.HasIndex("PlaybookRuleId");
 
                             b1.ToTable("PlaybookChecks", (string)null);
 
