@@ -5,6 +5,8 @@ using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.DependencyInjection.Extensions;
 using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Options;
+using Triage.Cases.Accounts;
+using Triage.Cases.CaseFile;
 using Triage.Cases.Domain;
 using Triage.Cases.FirstStart;
 using Triage.Cases.Hosting;
@@ -50,6 +52,8 @@ public static class CasesSetup
 
         s.AddScoped<StoreInitialiser>();
         s.AddScoped<QueueService>();
+        s.AddScoped<CaseFileQuery>();
+        s.AddScoped<TeamDirectory>();
         return b;
     }
 
