@@ -1,3 +1,4 @@
+using Microsoft.EntityFrameworkCore;
 using Triage.Cases.Domain;
 using Triage.Cases.Queue;
 using Triage.Cases.Tests.Support;
@@ -43,7 +44,7 @@ public sealed class QueueTests : IAsyncLifetime
     public async Task All_open_comes_riskiest_first_without_closed_cases()
     {
         var page = await Page(new QueueQuery(PageSize: 100));
-        var open = _cases.Where(c => c.IsOpen).OrderByDescending(c => c.Probability).ThenBy(c => c.Id).ToList();
+        var open = _cases.Where(c => c.IsOpen).OrderByDescending(c => c.Probability).ThenByDescending(c => c.Id).ToList();
         Assert.Equal(29, page.Total);
         Assert.Equal(open.Select(c => c.Id), page.Rows.Select(r => r.CaseId));
         Assert.Equal(open[0].TopDriver1, page.Rows[0].TopDriver1);
@@ -82,6 +83,36 @@ public sealed class QueueTests : IAsyncLifetime
         Assert.Equal(byAmount.Rows.Select(r => r.ClaimedAmount).Order(), byAmount.Rows.Select(r => r.ClaimedAmount));
         var byReceived = await Page(new QueueQuery(Sort: QueueSort.Received, PageSize: 100));
         Assert.Equal(byReceived.Rows.Select(r => r.ReceivedDate).OrderDescending(), byReceived.Rows.Select(r => r.ReceivedDate));
+    }
+
+    [Theory]
+    [InlineData(QueueView.Mine, "motor", "IX_Cases_Open_Assignee_Line_Probability")]
+    [InlineData(QueueView.Mine, null, "IX_Cases_Open_Assignee_Probability")]
+    [InlineData(QueueView.Unassigned, "home", "IX_Cases_Open_Assignee_Line_Probability")]
+    [InlineData(QueueView.AllOpen, "travel", "IX_Cases_Open_Line_Probability")]
+    [InlineData(QueueView.AllOpen, null, "IX_Cases_Open_Probability")]
+    public async Task The_riskiest_first_page_reads_a_partial_index_without_sorting(QueueView view, string? line, string index)
+    {
+        await using var db = _store.NewContext();
+        var sql = new QueueService(db).PageSql(new QueueQuery(view, _ines.Id, line));
+        var connection = db.Database.GetDbConnection();
+        await connection.OpenAsync();
+        await using var explain = connection.CreateCommand();
+        // ToQueryString prints parameters as ".param set" lines; bind them instead.
+        var lines = sql.Split('\n');
+        explain.CommandText = "EXPLAIN QUERY PLAN " + string.Join('\n', lines.Where(l => !l.StartsWith(".param")));
+        foreach (var p in lines.Where(l => l.StartsWith(".param set ")).Select(l => l[11..].Split(' ', 2)))
+        {
+            var parameter = explain.CreateParameter();
+            parameter.ParameterName = p[0];
+            parameter.Value = p[1].Trim('\'');
+            explain.Parameters.Add(parameter);
+        }
+        var plan = new List<string>();
+        await using (var r = await explain.ExecuteReaderAsync())
+            while (await r.ReadAsync()) plan.Add(r.GetString(3));
+        Assert.Contains(plan, step => step.Contains(index));
+        Assert.DoesNotContain(plan, step => step.Contains("TEMP B-TREE"));
     }
 
     [Fact]

@@ -30,6 +30,8 @@ public sealed class Case
     public string ScoredValuesJson { get; private set; } = "{}";
     public string? AssigneeId { get; private set; }
     public TriageUser? Assignee { get; private set; }
+    /// <summary>The assignee's display name when assigned, copied for the queue.</summary>
+    public string? AssigneeName { get; private set; }
     public DateTime OpenedAt { get; private set; }
     public DateTime DueDate { get; private set; }
     public DateTime? ClosedAt { get; private set; }
@@ -105,6 +107,7 @@ public sealed class Case
         Assignments.Add(new Assignment(AssigneeId, assignee.Id, by.UserName, at, reason));
         AssigneeId = assignee.Id;
         Assignee = assignee;
+        AssigneeName = assignee.DisplayName;
         // A new assignee starts the review afresh.
         Status = CaseStatus.Assigned;
         Record(by, "case.assigned", $"to {assignee.UserName}" + (reason is null ? "" : $": {reason}"), at);

@@ -2,12 +2,7 @@ using Microsoft.EntityFrameworkCore;
 
 namespace Triage.Cases.Store;
 
-public sealed class SqliteTriageDbContext(DbContextOptions<SqliteTriageDbContext> options) : TriageDbContext(options)
-{
-    protected override string TrueFilter(string column) => $"\"{column}\" = 1";
-}
+// One subclass per provider so each keeps its own migrations folder.
+public sealed class SqliteTriageDbContext(DbContextOptions<SqliteTriageDbContext> options) : TriageDbContext(options);
 
-public sealed class PostgresTriageDbContext(DbContextOptions<PostgresTriageDbContext> options) : TriageDbContext(options)
-{
-    protected override string TrueFilter(string column) => $"\"{column}\"";
-}
+public sealed class PostgresTriageDbContext(DbContextOptions<PostgresTriageDbContext> options) : TriageDbContext(options);

@@ -19,8 +19,9 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
     public DbSet<ModelVersion> ModelVersions => Set<ModelVersion>();
     public DbSet<PlaybookRule> PlaybookRules => Set<PlaybookRule>();
 
-    /// <summary>SQL for "this boolean column is true" in a filtered index; providers spell it differently.</summary>
-    protected abstract string TrueFilter(string column);
+    // A bare boolean column reads as "is true" in both SQLite and PostgreSQL. SQLite uses a partial
+    // index only when the query repeats the index's WHERE term, and EF writes `WHERE "c"."IsOpen"`.
+    private const string OpenOnly = "\"IsOpen\"";
 
     protected override void OnModelCreating(ModelBuilder b)
     {
@@ -52,12 +53,14 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
             c.Property(x => x.ModelVersion).HasMaxLength(64);
             c.Property(x => x.TopDriver1).HasMaxLength(120);
             c.Property(x => x.TopDriver2).HasMaxLength(120);
+            c.Property(x => x.AssigneeName).HasMaxLength(120);
             c.Property(x => x.Version).IsConcurrencyToken();
-            // The queue: open cases by risk, optionally for one line or one assignee.
-            c.HasIndex(x => new { x.IsOpen, x.Probability });
-            c.HasIndex(x => new { x.IsOpen, x.Line, x.Probability });
-            c.HasIndex(x => new { x.AssigneeId, x.IsOpen, x.Probability });
-            c.HasIndex(x => new { x.AssigneeId, x.IsOpen, x.Line, x.Probability });
+            // The queue: open cases by risk, optionally for one line and/or one assignee. Partial indexes
+            // hold only open cases, so they stay small while closed history grows.
+            c.HasIndex(x => x.Probability, "IX_Cases_Open_Probability").HasFilter(OpenOnly);
+            c.HasIndex(x => new { x.Line, x.Probability }, "IX_Cases_Open_Line_Probability").HasFilter(OpenOnly);
+            c.HasIndex(x => new { x.AssigneeId, x.Probability }, "IX_Cases_Open_Assignee_Probability").HasFilter(OpenOnly);
+            c.HasIndex(x => new { x.AssigneeId, x.Line, x.Probability }, "IX_Cases_Open_Assignee_Line_Probability").HasFilter(OpenOnly);
             c.Ignore(x => x.CurrentVerdict);
         });
 
@@ -89,7 +92,7 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
         {
             m.HasIndex(x => x.Version).IsUnique();
             // The database itself refuses a second serving model.
-            m.HasIndex(x => x.IsServing).IsUnique().HasFilter(TrueFilter("IsServing"));
+            m.HasIndex(x => x.IsServing).IsUnique().HasFilter("\"IsServing\"");
             m.Property(x => x.Version).HasMaxLength(64);
             m.Property(x => x.Trainer).HasMaxLength(32);
         });

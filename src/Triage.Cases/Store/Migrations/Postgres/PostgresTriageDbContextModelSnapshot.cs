@@ -235,6 +235,10 @@ namespace Triage.Cases.Store.Migrations.Postgres
                     b.Property<string>("AssigneeId")
                         .HasColumnType("text");
 
+                    b.Property<string>("AssigneeName")
+                        .HasMaxLength(120)
+                        .HasColumnType("character varying(120)");
+
                     b.Property<double>("BaseLogOdds")
                         .HasColumnType("double precision");
 
@@ -309,13 +313,17 @@ namespace Triage.Cases.Store.Migrations.Postgres
                     b.HasIndex("ClaimId")
                         .IsUnique();
 
-                    b.HasIndex("IsOpen", "Probability");
+                    b.HasIndex(new[] { "AssigneeId", "Line", "Probability" }, "IX_Cases_Open_Assignee_Line_Probability")
+                        .HasFilter("\"IsOpen\"");
 
-                    b.HasIndex("AssigneeId", "IsOpen", "Probability");
+                    b.HasIndex(new[] { "AssigneeId", "Probability" }, "IX_Cases_Open_Assignee_Probability")
+                        .HasFilter("\"IsOpen\"");
 
-                    b.HasIndex("IsOpen", "Line", "Probability");
+                    b.HasIndex(new[] { "Line", "Probability" }, "IX_Cases_Open_Line_Probability")
+                        .HasFilter("\"IsOpen\"");
 
-                    b.HasIndex("AssigneeId", "IsOpen", "Line", "Probability");
+                    b.HasIndex(new[] { "Probability" }, "IX_Cases_Open_Probability")
+                        .HasFilter("\"IsOpen\"");
 
                     b.ToTable("Cases");
                 });

@@ -220,6 +220,10 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                     b.Property<string>("AssigneeId")
                         .HasColumnType("TEXT");
 
+                    b.Property<string>("AssigneeName")
+                        .HasMaxLength(120)
+                        .HasColumnType("TEXT");
+
                     b.Property<double>("BaseLogOdds")
                         .HasColumnType("REAL");
 
@@ -294,13 +298,17 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                     b.HasIndex("ClaimId")
                         .IsUnique();
 
-                    b.HasIndex("IsOpen", "Probability");
+                    b.HasIndex(new[] { "AssigneeId", "Line", "Probability" }, "IX_Cases_Open_Assignee_Line_Probability")
+                        .HasFilter("\"IsOpen\"");
 
-                    b.HasIndex("AssigneeId", "IsOpen", "Probability");
+                    b.HasIndex(new[] { "AssigneeId", "Probability" }, "IX_Cases_Open_Assignee_Probability")
+                        .HasFilter("\"IsOpen\"");
 
-                    b.HasIndex("IsOpen", "Line", "Probability");
+                    b.HasIndex(new[] { "Line", "Probability" }, "IX_Cases_Open_Line_Probability")
+                        .HasFilter("\"IsOpen\"");
 
-                    b.HasIndex("AssigneeId", "IsOpen", "Line", "Probability");
+                    b.HasIndex(new[] { "Probability" }, "IX_Cases_Open_Probability")
+                        .HasFilter("\"IsOpen\"");
 
                     b.ToTable("Cases");
                 });
@@ -538,7 +546,7 @@ namespace Triage.Cases.Store.Migrations.Sqlite
 
                     b.HasIndex("IsServing")
                         .IsUnique()
-                        .HasFilter("\"IsServing\" = 1");
+                        .HasFilter("\"IsServing\"");
 
                     b.HasIndex("Version")
                         .IsUnique();

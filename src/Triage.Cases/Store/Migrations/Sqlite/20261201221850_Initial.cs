@@ -242,6 +242,7 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                     ModelVersion = table.Column<string>(type: "TEXT", maxLength: 64, nullable: false),
                     ScoredValuesJson = table.Column<string>(type: "TEXT", nullable: false),
                     AssigneeId = table.Column<string>(type: "TEXT", nullable: true),
+                    AssigneeName = table.Column<string>(type: "TEXT", maxLength: 120, nullable: true),
                     OpenedAt = table.Column<DateTime>(type: "TEXT", nullable: false),
                     DueDate = table.Column<DateTime>(type: "TEXT", nullable: false),
                     ClosedAt = table.Column<DateTime>(type: "TEXT", nullable: true),
@@ -503,30 +504,34 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                 column: "CaseId");
 
             migrationBuilder.CreateIndex(
-                name: "IX_Cases_AssigneeId_IsOpen_Line_Probability",
-                table: "Cases",
-                columns: new[] { "AssigneeId", "IsOpen", "Line", "Probability" });
-
-            migrationBuilder.CreateIndex(
-                name: "IX_Cases_AssigneeId_IsOpen_Probability",
-                table: "Cases",
-                columns: new[] { "AssigneeId", "IsOpen", "Probability" });
-
-            migrationBuilder.CreateIndex(
                 name: "IX_Cases_ClaimId",
                 table: "Cases",
                 column: "ClaimId",
                 unique: true);
 
             migrationBuilder.CreateIndex(
-                name: "IX_Cases_IsOpen_Line_Probability",
+                name: "IX_Cases_Open_Assignee_Line_Probability",
                 table: "Cases",
-                columns: new[] { "IsOpen", "Line", "Probability" });
+                columns: new[] { "AssigneeId", "Line", "Probability" },
+                filter: "\"IsOpen\"");
 
             migrationBuilder.CreateIndex(
-                name: "IX_Cases_IsOpen_Probability",
+                name: "IX_Cases_Open_Assignee_Probability",
                 table: "Cases",
-                columns: new[] { "IsOpen", "Probability" });
+                columns: new[] { "AssigneeId", "Probability" },
+                filter: "\"IsOpen\"");
+
+            migrationBuilder.CreateIndex(
+                name: "IX_Cases_Open_Line_Probability",
+                table: "Cases",
+                columns: new[] { "Line", "Probability" },
+                filter: "\"IsOpen\"");
+
+            migrationBuilder.CreateIndex(
+                name: "IX_Cases_Open_Probability",
+                table: "Cases",
+                column: "Probability",
+                filter: "\"IsOpen\"");
 
             migrationBuilder.CreateIndex(
                 name: "IX_Checks_CaseId",
@@ -555,7 +560,7 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                 table: "ModelVersions",
                 column: "IsServing",
                 unique: true,
-                filter: "\"IsServing\" = 1");
+                filter: "\"IsServing\"");
 
             migrationBuilder.CreateIndex(
                 name: "IX_ModelVersions_Version",

@@ -243,6 +243,7 @@ namespace Triage.Cases.Store.Migrations.Postgres
                     ModelVersion = table.Column<string>(type: "character varying(64)", maxLength: 64, nullable: false),
                     ScoredValuesJson = table.Column<string>(type: "text", nullable: false),
                     AssigneeId = table.Column<string>(type: "text", nullable: true),
+                    AssigneeName = table.Column<string>(type: "character varying(120)", maxLength: 120, nullable: true),
                     OpenedAt = table.Column<DateTime>(type: "timestamp with time zone", nullable: false),
                     DueDate = table.Column<DateTime>(type: "timestamp with time zone", nullable: false),
                     ClosedAt = table.Column<DateTime>(type: "timestamp with time zone", nullable: true),
@@ -504,30 +505,34 @@ namespace Triage.Cases.Store.Migrations.Postgres
                 column: "CaseId");
 
             migrationBuilder.CreateIndex(
-                name: "IX_Cases_AssigneeId_IsOpen_Line_Probability",
-                table: "Cases",
-                columns: new[] { "AssigneeId", "IsOpen", "Line", "Probability" });
-
-            migrationBuilder.CreateIndex(
-                name: "IX_Cases_AssigneeId_IsOpen_Probability",
-                table: "Cases",
-                columns: new[] { "AssigneeId", "IsOpen", "Probability" });
-
-            migrationBuilder.CreateIndex(
                 name: "IX_Cases_ClaimId",
                 table: "Cases",
                 column: "ClaimId",
                 unique: true);
 
             migrationBuilder.CreateIndex(
-                name: "IX_Cases_IsOpen_Line_Probability",
+                name: "IX_Cases_Open_Assignee_Line_Probability",
                 table: "Cases",
-                columns: new[] { "IsOpen", "Line", "Probability" });
+                columns: new[] { "AssigneeId", "Line", "Probability" },
+                filter: "\"IsOpen\"");
 
             migrationBuilder.CreateIndex(
-                name: "IX_Cases_IsOpen_Probability",
+                name: "IX_Cases_Open_Assignee_Probability",
                 table: "Cases",
-                columns: new[] { "IsOpen", "Probability" });
+                columns: new[] { "AssigneeId", "Probability" },
+                filter: "\"IsOpen\"");
+
+            migrationBuilder.CreateIndex(
+                name: "IX_Cases_Open_Line_Probability",
+                table: "Cases",
+                columns: new[] { "Line", "Probability" },
+                filter: "\"IsOpen\"");
+
+            migrationBuilder.CreateIndex(
+                name: "IX_Cases_Open_Probability",
+                table: "Cases",
+                column: "Probability",
+                filter: "\"IsOpen\"");
 
             migrationBuilder.CreateIndex(
                 name: "IX_Checks_CaseId",
