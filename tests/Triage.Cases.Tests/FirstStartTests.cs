@@ -113,6 +113,14 @@ public sealed class FirstStartTests
     }
 
     [Fact]
+    public async Task The_demo_needs_a_password_when_it_is_on()
+    {
+        await using var store = TestStore.Create(extra: new() { ["Demo:Password"] = "" });
+        var e = await Assert.ThrowsAsync<OptionsValidationException>(() => store.Host.StartAsync());
+        Assert.Contains("Demo:Password is required when Demo:Enabled is true", e.Message);
+    }
+
+    [Fact]
     public void Checks_follow_the_raising_drivers_in_rank_order_once_each()
     {
         var rules = new[]

@@ -19,6 +19,14 @@ public sealed class SignInTests(TriageWebFactory factory) : IClassFixture<Triage
     }
 
     [Fact]
+    public async Task The_error_page_needs_no_sign_in()
+    {
+        var response = await SignInClient.Anonymous(factory).GetAsync("/error");
+        Assert.Equal(HttpStatusCode.OK, response.StatusCode);
+        Assert.Contains("Something went wrong", await response.Content.ReadAsStringAsync());
+    }
+
+    [Fact]
     public async Task The_sign_in_page_lists_demo_accounts_by_role_with_the_password()
     {
         var html = await SignInClient.Anonymous(factory).GetStringAsync("/signin");

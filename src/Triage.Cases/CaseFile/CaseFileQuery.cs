@@ -16,7 +16,7 @@ public sealed class CaseFileQuery(TriageDbContext db)
     public async Task<CaseFileView?> GetAsync(int caseId, CancellationToken ct = default)
     {
         var c = await db.Cases.AsNoTracking().AsSplitQuery()
-            .Include(x => x.Claim).Include(x => x.Assignee).Include(x => x.Drivers).Include(x => x.Checks).Include(x => x.Verdicts)
+            .Include(x => x.Claim).Include(x => x.Assignee).Include(x => x.Drivers).Include(x => x.Checks)
             .SingleOrDefaultAsync(x => x.Id == caseId, ct);
         if (c?.Claim is null) return null;
         var lowersRules = await db.PlaybookRules.AsNoTracking().Where(r => r.Direction == DriverDirection.Lowers).ToListAsync(ct);
