@@ -49,10 +49,12 @@ public sealed class StoreInitialiser(
             log.LogWarning("Store is empty and {Folder} holds no scenario.json; starting with an empty store", seed);
             return;
         }
+        // The model file is the one thing outside the transaction: remove it if the seeding fails.
+        var modelFile = Path.Combine(paths.ModelsFolder, $"{FirstModelVersion}.model");
         await using var tx = await db.Database.BeginTransactionAsync(ct);
-        var modelFile = await SeedAsync(seed, watch, ct);
         try
         {
+            await SeedAsync(seed, modelFile, watch, ct);
             await tx.CommitAsync(ct);
         }
         catch
@@ -63,7 +65,7 @@ public sealed class StoreInitialiser(
         log.LogInformation("First start finished in {Seconds:0.0} s", watch.Elapsed.TotalSeconds);
     }
 
-    private async Task<string> SeedAsync(string seed, Stopwatch watch, CancellationToken ct)
+    private async Task SeedAsync(string seed, string modelFile, Stopwatch watch, CancellationToken ct)
     {
         var now = clock.GetUtcNow().UtcDateTime;
         var today = DateOnly.FromDateTime(now);
@@ -85,7 +87,7 @@ public sealed class StoreInitialiser(
 
         var team = demo.Value.Enabled ? await CreateDemoAccountsAsync(Path.Combine(seed, "team.json"), now, ct) : [];
 
-        var (model, modelFile) = TrainFirstModel(schema, history, ct);
+        var model = TrainFirstModel(schema, history, modelFile, ct);
         db.ModelVersions.Add(await RegisterAsync(model, modelFile, now, ct));
         log.LogInformation("Model {Version} trained on {Rows} claims, holdout ROC AUC {Auc:0.000} ({Ms} ms)",
             model.Metadata.Version, model.Metadata.TrainingRows, model.Metadata.Holdout.RocAuc, watch.ElapsedMilliseconds);
@@ -112,7 +114,6 @@ public sealed class StoreInitialiser(
         log.LogInformation("Scored {Open} open claims; {Cases} at or above {Threshold:0.00} opened as cases ({Ms} ms)",
             scored.Count, cases.Count, threshold, watch.ElapsedMilliseconds);
         db.ChangeTracker.Clear();
-        return modelFile;
     }
 
     /// <summary>Adds rows in batches with change detection off; the change tracker is cleared between batches.</summary>
@@ -128,7 +129,7 @@ public sealed class StoreInitialiser(
         db.ChangeTracker.AutoDetectChangesEnabled = true;
     }
 
-    private (ScoringModel Model, string File) TrainFirstModel(ClaimSchema schema, List<SeedClaim> history, CancellationToken ct)
+    private ScoringModel TrainFirstModel(ClaimSchema schema, List<SeedClaim> history, string file, CancellationToken ct)
     {
         var rows = history
             .Where(h => h.Outcome is VerdictOutcome.ConfirmedFraud or VerdictOutcome.NotFraud)
@@ -142,12 +143,11 @@ public sealed class StoreInitialiser(
             log.LogInformation("Training: {Stage}", p.Stage);
         });
         var model = trainer.Train(schema, rows, new TrainingRequest(FirstModelVersion, TrainedBy: Actor.System.UserName), progress, ct);
-        Directory.CreateDirectory(paths.ModelsFolder);
-        var file = Path.Combine(paths.ModelsFolder, $"{model.Metadata.Version}.model");
+        Directory.CreateDirectory(Path.GetDirectoryName(file)!);
         var temp = file + ".tmp";
         model.Save(temp);
         File.Move(temp, file, overwrite: true);
-        return (model, file);
+        return model;
     }
 
     private async Task<ModelVersion> RegisterAsync(ScoringModel model, string file, DateTime now, CancellationToken ct)
