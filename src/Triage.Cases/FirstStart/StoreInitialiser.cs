@@ -59,7 +59,7 @@ public sealed class StoreInitialiser(
         }
         catch
         {
-            File.Delete(modelFile);
+            if (File.Exists(modelFile)) File.Delete(modelFile);
             throw;
         }
         log.LogInformation("First start finished in {Seconds:0.0} s", watch.Elapsed.TotalSeconds);
