@@ -1,4 +1,13 @@
+using Triage.Cases;
+using Triage.Cases.Hosting;
+using Triage.Web;
+
 var builder = WebApplication.CreateBuilder(args);
+builder.Configuration.AddTriageSettings(builder.Environment.EnvironmentName);
+builder.AddTriageCases();
+builder.AddTriageWeb();
+
 var app = builder.Build();
-app.MapGet("/", () => "Triage");
+await app.Services.InitialiseStoreAsync();
+app.MapTriageWeb();
 app.Run();

@@ -27,11 +27,14 @@ public static class TriageHome
         // Insert before environment variables and command line so those still win.
         var firstOverride = sources.TakeWhile(s => s is not Microsoft.Extensions.Configuration.EnvironmentVariables.EnvironmentVariablesConfigurationSource
                                                       and not Microsoft.Extensions.Configuration.CommandLine.CommandLineConfigurationSource).Count();
-        var extra = new ConfigurationBuilder()
-            .SetBasePath(home)
-            .AddJsonFile("appsettings.json", optional: false, reloadOnChange: false)
-            .AddJsonFile($"appsettings.{environmentName}.json", optional: true, reloadOnChange: false);
-        foreach (var source in extra.Sources.Reverse()) sources.Insert(firstOverride, source);
+        // Each source carries its own file provider: a base path set on another builder would not travel with it.
+        var files = new Microsoft.Extensions.FileProviders.PhysicalFileProvider(home);
+        var extra = new[]
+        {
+            new Microsoft.Extensions.Configuration.Json.JsonConfigurationSource { FileProvider = files, Path = "appsettings.json", Optional = false },
+            new Microsoft.Extensions.Configuration.Json.JsonConfigurationSource { FileProvider = files, Path = $"appsettings.{environmentName}.json", Optional = true },
+        };
+        foreach (var source in extra.Reverse()) sources.Insert(firstOverride, source);
         configuration["Triage:Home"] = home;
         return home;
     }

@@ -1,0 +1,33 @@
+using Microsoft.EntityFrameworkCore;
+using Triage.Cases.Domain;
+using Triage.Cases.Store;
+
+namespace Triage.Cases.CaseFile;
+
+/// <summary>A driver with what to check for it: the case's check items for a raising driver,
+/// the playbook's suggestions for a lowering one.</summary>
+public sealed record DriverWithChecks(DriverSnapshot Driver, IReadOnlyList<CheckItem> Checks, IReadOnlyList<PlaybookCheck> Suggestions);
+
+public sealed record CaseFileView(Case Case, Claim Claim, IReadOnlyList<DriverWithChecks> Raising, IReadOnlyList<DriverWithChecks> Lowering);
+
+/// <summary>Everything the case page shows, read without tracking.</summary>
+public sealed class CaseFileQuery(TriageDbContext db)
+{
+    public async Task<CaseFileView?> GetAsync(int caseId, CancellationToken ct = default)
+    {
+        var c = await db.Cases.AsNoTracking().AsSplitQuery()
+            .Include(x => x.Claim).Include(x => x.Assignee).Include(x => x.Drivers).Include(x => x.Checks)
+            .SingleOrDefaultAsync(x => x.Id == caseId, ct);
+        if (c?.Claim is null) return null;
+        var lowersRules = await db.PlaybookRules.AsNoTracking().Where(r => r.Direction == DriverDirection.Lowers).ToListAsync(ct);
+        var values = c.ScoredValues();
+        var drivers = c.Drivers.OrderBy(d => d.Rank).ToList();
+        var raising = drivers.Where(d => d.Raises)
+            .Select(d => new DriverWithChecks(d, c.Checks.Where(k => k.DriverField == d.Field).OrderBy(k => k.Order).ToList(), []))
+            .ToList();
+        var lowering = drivers.Where(d => d.Contribution < 0).OrderBy(d => d.Contribution)
+            .Select(d => new DriverWithChecks(d, [], lowersRules.Where(r => r.Matches(d, values)).SelectMany(r => r.Checks).ToList()))
+            .ToList();
+        return new CaseFileView(c, c.Claim, raising, lowering);
+    }
+}
