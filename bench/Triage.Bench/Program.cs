@@ -1,14 +1,16 @@
 using Triage.Bench.Explain;
+using Triage.Bench.Queue;
 
 // Each benchmark lives in its own folder; add a case here for a new one.
-var benchmarks = new Dictionary<string, Func<int>>
+var benchmarks = new Dictionary<string, Func<string[], Task<int>>>
 {
-    ["explain"] = ExplainBenchmark.Run,
+    ["explain"] = _ => Task.FromResult(ExplainBenchmark.Run()),
+    ["queue"] = async rest => { await QueueBenchmark.RunAsync(rest); return 0; },
 };
 
 if (args.Length == 0 || !benchmarks.TryGetValue(args[0], out var run))
 {
-    Console.Error.WriteLine($"usage: Triage.Bench <{string.Join("|", benchmarks.Keys)}>");
+    Console.Error.WriteLine($"usage: Triage.Bench <{string.Join("|", benchmarks.Keys)}> [options]");
     return 2;
 }
-return run();
+return await run(args[1..]);
