@@ -69,7 +69,10 @@ public static class DriverWording
     {
         var number = unit == "EUR" || Math.Abs(v) >= 1000
             ? v.ToString(Math.Abs(v - Math.Round(v)) < 1e-9 ? "#,0" : "#,0.00", CultureInfo.InvariantCulture)
-            : v.ToString("0.##", CultureInfo.InvariantCulture);
+            : Math.Abs(v) < 0.1 && v != 0
+                // Small ratios would round to 0 with two decimals; keep two significant digits.
+                ? v.ToString("G2", CultureInfo.InvariantCulture)
+                : v.ToString("0.##", CultureInfo.InvariantCulture);
         return unit switch
         {
             null or "" => number,

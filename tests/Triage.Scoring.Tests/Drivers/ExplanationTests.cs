@@ -95,6 +95,7 @@ public class ExplanationTests(TrainedModels models)
     [InlineData(12500.0, "EUR", "EUR 12,500")]
     [InlineData(420.5, "EUR", "EUR 420.50")]
     [InlineData(0.853, null, "0.85")]
+    [InlineData(0.00657, null, "0.0066")]
     public void Values_are_formatted_for_people(double value, string? unit, string text) =>
         Assert.Equal(text, DriverWording.Format(value, unit));
 }
