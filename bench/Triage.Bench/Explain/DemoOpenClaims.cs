@@ -29,7 +29,7 @@ internal static class DemoOpenClaims
         var rows = history.Select(r => new LabelledClaim(r, r["outcome"] == "confirmed_fraud")).ToList();
         var train = Stopwatch.StartNew();
         var model = new ModelTrainer(Options.Create(options)).Train(schema, rows, new TrainingRequest("bench"));
-        Console.WriteLine($"demo model: {options.Trainer}, trained on {history.Count:N0} claims in {train.Elapsed.TotalSeconds:F1} s");
+        Console.WriteLine($"demo model: {options.Trainer}, trained on {model.Metadata.TrainingRows:N0} claims (holdout {model.Metadata.HoldoutRows:N0}) in {train.Elapsed.TotalSeconds:F1} s");
 
         foreach (var claim in open.Take(50)) model.Explain(claim); // warm up
         var one = Stopwatch.StartNew();
