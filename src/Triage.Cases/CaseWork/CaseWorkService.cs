@@ -34,6 +34,10 @@ public sealed class CaseWorkService(TriageDbContext db, CaseFileQuery files, Cas
     public Task<CaseFileView> ReportAsync(int caseId, Actor actor, CancellationToken ct = default) =>
         ReadAsync(caseId, actor, "download a case report", ReportDownloaded, ct);
 
+    /// <summary>Reads the case again for a page already showing it (after a change); not audited a second time.</summary>
+    public Task<CaseFileView> ReloadAsync(int caseId, Actor actor, CancellationToken ct = default) =>
+        ReadAsync(caseId, actor, "open a case", null, ct);
+
     public Task TickCheckAsync(int caseId, int checkId, string? note, CaseStamp seen, Actor actor, CancellationToken ct = default) =>
         ChangeAsync(caseId, seen, actor, "tick a check", [Roles.Investigator], c =>
         {
@@ -83,13 +87,14 @@ public sealed class CaseWorkService(TriageDbContext db, CaseFileQuery files, Cas
             return "verdict.amended";
         }, ct);
 
-    private async Task<CaseFileView> ReadAsync(int caseId, Actor actor, string action, string auditWhat, CancellationToken ct)
+    private async Task<CaseFileView> ReadAsync(int caseId, Actor actor, string action, string? auditWhat, CancellationToken ct)
     {
         actor.Require(action, [.. Roles.All]);
         var file = await files.GetAsync(caseId, ct) ?? throw new CaseNotFoundException(caseId);
         if (!Readers.Any(actor.IsIn) && file.Case.AssigneeId is { } owner && owner != actor.UserId)
             throw new AccessDeniedException(
                 $"{actor.UserName} may not {action} {file.Case.ClaimNumber}: it is assigned to {file.Case.AssigneeName}.");
+        if (auditWhat is null) return file;
         db.AuditEvents.Add(new AuditEvent(actor.UserName, auditWhat, null, Now, caseId));
         await db.SaveChangesAsync(ct);
         return file;

@@ -11,8 +11,8 @@ namespace Triage.Web.Reports;
 /// <summary>The case report as a PDF: facts, score, driver chart and list, checks, notes, verdicts and the caution.</summary>
 public static class CaseReport
 {
-    private static readonly XColor Raising = XColor.FromArgb(0xC7, 0x85, 0x0F);
-    private static readonly XColor Lowering = XColor.FromArgb(0x3F, 0x76, 0x73);
+    private static readonly XColor Raising = Hex(TriageTheme.Raising);
+    private static readonly XColor Lowering = Hex(TriageTheme.Lowering);
     private static readonly XColor Muted = XColor.FromArgb(0x6A, 0x67, 0x88);
 
     public static byte[] Render(CaseFileView f, DateTime printedAt, string printedBy)
@@ -75,6 +75,9 @@ public static class CaseReport
         doc.Save(output, closeStream: false);
         return output.ToArray();
     }
+
+    private static XColor Hex(string rgb) =>
+        XColor.FromArgb(Convert.ToInt32(rgb[1..3], 16), Convert.ToInt32(rgb[3..5], 16), Convert.ToInt32(rgb[5..7], 16));
 
     // The same waterfall as the case page: one bar per driver from the running total before it to after it.
     private static void Chart(ReportPage page, DriverWaterfall w)
