@@ -39,7 +39,7 @@ public sealed class DriverChartTests : ComponentTest
         var items = cut.FindAll("li");
         Assert.Equal(3, items.Count);
         Assert.Contains("Cover raised before loss", items[0].TextContent);
-        Assert.Contains("Raises the risk. much sooner than typical (median 210 days)", items[0].TextContent);
-        Assert.Contains("Lowers the risk. supplied, as in most honest claims", items[2].TextContent);
+        Assert.Contains("Raises the risk: much sooner than typical (median 210 days)", items[0].TextContent);
+        Assert.Contains("Lowers the risk: supplied, as in most honest claims", items[2].TextContent);
     }
 }
