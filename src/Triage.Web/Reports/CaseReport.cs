@@ -23,10 +23,10 @@ public static class CaseReport
         using (var page = new ReportPage(doc))
         {
             var c = f.Case;
-            page.Text($"Case report · {c.ClaimNumber}", ReportPage.Title);
+            page.Text($"Case report · {c.ClaimNumber}", page.Title);
             page.Text($"Printed {CaseFacts.When(printedAt)} by {printedBy}. Larchmere Mutual special investigations.", color: Muted);
             page.Gap(6);
-            page.Text(CaseFacts.Caution, ReportPage.Bold, color: XColor.FromArgb(0x34, 0x30, 0x7A));
+            page.Text(CaseFacts.Caution, page.Bold, color: XColor.FromArgb(0x34, 0x30, 0x7A));
 
             foreach (var group in CaseFacts.Groups(f))
             {
@@ -48,7 +48,7 @@ public static class CaseReport
             page.Section("Checks");
             foreach (var d in f.Raising)
             {
-                page.Text(d.Driver.DisplayName, ReportPage.Bold);
+                page.Text(d.Driver.DisplayName, page.Bold);
                 if (d.Checks.Count == 0) page.Text("No playbook entry for this driver.", indent: 12, color: Muted);
                 foreach (var k in d.Checks)
                 {
@@ -67,7 +67,7 @@ public static class CaseReport
             {
                 var saved = v.AmountSaved is { } a ? $", amount saved {CaseFacts.Money(a)}" : "";
                 page.Text($"{CaseFacts.When(v.At)} · {v.By}: {VerdictReasons.Label(v.Outcome)} — {v.Reason}{saved}" + (v.IsCurrent ? "" : " (superseded)"),
-                    v.IsCurrent ? ReportPage.Bold : ReportPage.Body);
+                    v.IsCurrent ? page.Bold : page.Body);
                 if (v.Note is not null) page.Text(v.Note, indent: 12, color: Muted);
             }
         }
@@ -87,7 +87,7 @@ public static class CaseReport
         var span = Math.Max(high - low, 1);
         var plot = page.Width - labelWidth - valueWidth;
         double X(double points) => ReportPage.Margin + labelWidth + (points - low) / span * plot;
-        var small = new XFont(ReportFonts.Family, 7.5, XFontStyleEx.Regular);
+        var small = page.Small;
         var ink = new XSolidBrush(XColors.Black);
         void Marker(string label, double points)
         {

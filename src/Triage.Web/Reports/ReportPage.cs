@@ -10,10 +10,12 @@ internal sealed class ReportPage(PdfDocument doc) : IDisposable
     private XGraphics? _g;
     private double _y;
 
-    public static readonly XFont Body = new(ReportFonts.Family, 9.5, XFontStyleEx.Regular);
-    public static readonly XFont Bold = new(ReportFonts.Family, 9.5, XFontStyleEx.Bold);
-    public static readonly XFont Heading = new(ReportFonts.Family, 12.5, XFontStyleEx.Bold);
-    public static readonly XFont Title = new(ReportFonts.Family, 17, XFontStyleEx.Bold);
+    // Instance fields, so no font is made before the caller has installed the font resolver.
+    public XFont Body { get; } = new(ReportFonts.Family, 9.5, XFontStyleEx.Regular);
+    public XFont Bold { get; } = new(ReportFonts.Family, 9.5, XFontStyleEx.Bold);
+    public XFont Small { get; } = new(ReportFonts.Family, 7.5, XFontStyleEx.Regular);
+    public XFont Heading { get; } = new(ReportFonts.Family, 12.5, XFontStyleEx.Bold);
+    public XFont Title { get; } = new(ReportFonts.Family, 17, XFontStyleEx.Bold);
 
     public double Width => PageWidth - 2 * Margin;
     private static double PageWidth => XUnit.FromMillimeter(210).Point;

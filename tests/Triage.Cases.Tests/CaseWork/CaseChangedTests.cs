@@ -9,10 +9,12 @@ public sealed class CaseChangedTests
 {
     private static readonly VerdictInput Fraud = new(VerdictOutcome.ConfirmedFraud, "Amount exaggerated", null, null);
 
-    [Fact]
-    public async Task A_verdict_on_a_case_reassigned_meanwhile_is_refused_naming_the_new_assignee()
+    [SkippableTheory]
+    [InlineData("Sqlite")]
+    [InlineData("Postgres")]
+    public async Task A_verdict_on_a_case_reassigned_meanwhile_is_refused_naming_the_new_assignee(string provider)
     {
-        await using var f = new CaseWorkFixture();
+        await using var f = new CaseWorkFixture(provider);
         var id = await f.CaseAsync(f.Ines);
         var seen = (await f.OpenAsync(id, f.InesActor)).Stamp;
         await using (var db = f.Store.NewContext())

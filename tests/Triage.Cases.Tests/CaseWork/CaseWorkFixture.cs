@@ -8,9 +8,9 @@ using Triage.Cases.Tests.Support;
 namespace Triage.Cases.Tests.CaseWork;
 
 /// <summary>A fresh store with three people and one case; each call runs in its own scope, as a page's would.</summary>
-public sealed class CaseWorkFixture : IAsyncDisposable
+public sealed class CaseWorkFixture(string provider = "Sqlite") : IAsyncDisposable
 {
-    public TestStore Store { get; } = TestStore.Create();
+    public TestStore Store { get; } = TestStore.Create(provider);
     public TriageUser Ines { get; } = Build.User("ines");
     public TriageUser Tomas { get; } = Build.User("tomas");
     public TriageUser Mara { get; } = Build.User("mara");

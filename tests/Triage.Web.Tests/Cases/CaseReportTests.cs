@@ -34,7 +34,7 @@ public sealed class CaseReportTests
 
         string[] expected =
         [
-            "Case report · LM-2027-0412", "Line of business: motor", "Cause of loss: collision", "Amount claimed: 8,400.00",
+            "Case report · LM-2027-0412", "Line of business: motor", "Cause of loss: collision", "Amount claimed: 8,400.00", "Policy limit: 25,000.00",
             "Assignee: Ines Varga", "Status: Closed", $"{c.Probability * 100:0.0}% probability of fraud",
             "Scored by model fasttree-2027-03-01", "Base rate", "This case",
             "Cover raised before loss = 6 days (much sooner than typical (median 210 days))",

@@ -19,7 +19,7 @@ public static class CaseFacts
         return
         [
             new("Claim", [("Claim number", c.ClaimNumber), ("Line of business", f.Claim.Line), ("Cause of loss", Raw("loss_cause")),
-                ("Amount claimed", Money(f.Claim.ClaimedAmount)), ("Policy limit", Raw("policy_limit"))]),
+                ("Amount claimed", Money(f.Claim.ClaimedAmount)), ("Policy limit", Amount(Raw("policy_limit")))]),
             new("Dates", [("Policy start", Date(f.Claim.PolicyStartDate)), ("Date of loss", Date(f.Claim.LossDate)),
                 ("Date reported", Date(f.Claim.ReportDate))]),
             new("Handling", [("Status", Status(c.Status)), ("Assignee", c.AssigneeName ?? "Unassigned"), ("Case opened", Date(c.OpenedAt)),
@@ -29,6 +29,9 @@ public static class CaseFacts
 
     public static string Rank(CaseFileView f) =>
         f.Rank is { } r ? $"{r.Rank} of {r.OpenCases} open cases" : "not in the queue (closed)";
+
+    private static string Amount(string raw) =>
+        double.TryParse(raw, NumberStyles.Float, CultureInfo.InvariantCulture, out var a) ? Money(a) : raw;
 
     public static string Money(double amount) => amount.ToString("N2", CultureInfo.InvariantCulture);
 
