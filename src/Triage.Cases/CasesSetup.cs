@@ -7,6 +7,7 @@ using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Options;
 using Triage.Cases.Accounts;
 using Triage.Cases.CaseFile;
+using Triage.Cases.CaseWork;
 using Triage.Cases.Domain;
 using Triage.Cases.FirstStart;
 using Triage.Cases.Hosting;
@@ -53,6 +54,8 @@ public static class CasesSetup
         s.AddScoped<StoreInitialiser>();
         s.AddScoped<QueueService>();
         s.AddScoped<CaseFileQuery>();
+        s.AddScoped<CaseWorkService>();
+        s.AddSingleton<CaseEvents>();
         s.AddScoped<TeamDirectory>();
         return b;
     }

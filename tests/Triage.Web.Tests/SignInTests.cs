@@ -110,7 +110,7 @@ public sealed class SignInTests(TriageWebFactory factory) : IClassFixture<Triage
         await SignInClient.PostAsync(client, "olu.berg", TinySeed.Password);
         var html = await client.GetStringAsync($"/cases/{caseId}");
         Assert.Contains("A risk score ranks claims for review; it is not evidence.", html);
-        Assert.Contains("What raised the score", html);
+        Assert.Contains("Why this score", html);
         Assert.Contains("v1", html);
     }
 }

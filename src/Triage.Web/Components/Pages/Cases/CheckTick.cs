@@ -1,0 +1,3 @@
+namespace Triage.Web.Components.Pages.Cases;
+
+public sealed record CheckTick(int CheckId, string? Note);
