@@ -2,6 +2,7 @@ using System.Diagnostics;
 using System.Globalization;
 using Microsoft.Data.Sqlite;
 using Microsoft.EntityFrameworkCore;
+using Triage.Cases.Domain;
 using Triage.Cases.Store;
 
 namespace Triage.Bench.Queue;
@@ -15,6 +16,7 @@ internal static class QueueData
     private const double OpenShare = 0.3;
 
     public static string UserId(int i) => $"bench-user-{i:D2}";
+    public static Actor Investigator(int i) => new(UserId(i), $"bench{i:D2}", new HashSet<string> { Roles.Investigator });
     private static string DisplayName(int i) => $"Bench Investigator {i:D2}";
 
     public static async Task EnsureAsync(string file, int cases)
