@@ -13,7 +13,7 @@ public sealed class UserAccounts(TriageDbContext db, UserManager<TriageUser> use
     public async Task<TriageUser> AddAsync(Actor actor, NewAccount account, string password, CancellationToken ct = default)
     {
         actor.Require("create accounts", Domain.Roles.Admin);
-        CheckRoles(account.Roles);
+        var asked = Canonical(account.Roles);
         if (account.DailyCapacity is < 0 or > 100)
             throw new DomainRuleException($"Capacity must be between 0 and 100 cases a day (got {account.DailyCapacity}).");
         await EnsureRolesAsync();
@@ -28,29 +28,31 @@ public sealed class UserAccounts(TriageDbContext db, UserManager<TriageUser> use
         };
         // Identity checks the user name, e-mail and password rules and says which one failed.
         Check(await users.CreateAsync(user, password), $"user '{account.UserName}'");
-        Check(await users.AddToRolesAsync(user, account.Roles.Distinct()), $"user '{account.UserName}'");
-        await AuditAsync(actor, "user.added", $"{user.UserName}: {string.Join(',', account.Roles)}", ct);
+        Check(await users.AddToRolesAsync(user, asked), $"user '{account.UserName}'");
+        await AuditAsync(actor, "user.added", $"{user.UserName}: {string.Join(',', asked)}", ct);
         return user;
     }
 
     public async Task SetRolesAsync(Actor actor, string userName, IReadOnlyList<string> newRoles, CancellationToken ct = default)
     {
         actor.Require("change roles", Domain.Roles.Admin);
-        CheckRoles(newRoles);
+        var asked = Canonical(newRoles);
         await EnsureRolesAsync();
         var user = await users.FindByNameAsync(userName) ?? throw new DomainRuleException($"No user named '{userName}'.");
         var current = await users.GetRolesAsync(user);
-        Check(await users.RemoveFromRolesAsync(user, current.Except(newRoles)), $"user '{userName}'");
-        Check(await users.AddToRolesAsync(user, newRoles.Except(current).Distinct()), $"user '{userName}'");
-        await AuditAsync(actor, "user.roles", $"{userName}: {string.Join(',', current.Order())} → {string.Join(',', newRoles.Order())}", ct);
+        Check(await users.RemoveFromRolesAsync(user, current.Except(asked)), $"user '{userName}'");
+        Check(await users.AddToRolesAsync(user, asked.Except(current)), $"user '{userName}'");
+        await AuditAsync(actor, "user.roles", $"{userName}: {string.Join(',', current.Order())} → {string.Join(',', asked.Order())}", ct);
     }
 
-    private static void CheckRoles(IReadOnlyList<string> asked)
+    /// <summary>The roles as the app spells them ("teamlead" → "TeamLead"); refuses none or an unknown one.</summary>
+    private static List<string> Canonical(IReadOnlyList<string> asked)
     {
         if (asked.Count == 0) throw new DomainRuleException($"Give at least one role ({string.Join(", ", Domain.Roles.All)}).");
-        var unknown = asked.Where(r => !Domain.Roles.All.Contains(r)).ToList();
+        var unknown = asked.Where(r => !Domain.Roles.All.Contains(r, StringComparer.OrdinalIgnoreCase)).ToList();
         if (unknown.Count > 0)
             throw new DomainRuleException($"Unknown role {string.Join(", ", unknown)}; roles are {string.Join(", ", Domain.Roles.All)}.");
+        return Domain.Roles.All.Where(r => asked.Contains(r, StringComparer.OrdinalIgnoreCase)).ToList();
     }
 
     private async Task EnsureRolesAsync()
