@@ -6,13 +6,12 @@ export function attach(root) {
   const observer = new MutationObserver(mark);
   observer.observe(root, { childList: true, subtree: true });
   mark();
+  root.dataset.keys = 'on';
 
   const onKey = e => {
     if (e.ctrlKey || e.metaKey || e.altKey) return;
-    const inGrid = root.contains(e.target);
-    // Typing in a filter or search box must never move the focus.
-    if (e.target.closest?.('input, textarea, select, [contenteditable], .mud-popover') && !e.target.closest('tbody tr')) return;
-    if (!inGrid && e.target !== document.body) return;
+    // Typing in a filter or search box, or choosing from an open list, must never move the focus.
+    if (e.target.closest?.('input, textarea, select, [contenteditable], [role=listbox], .mud-popover')) return;
     const list = rows();
     if (list.length === 0) return;
     const at = list.indexOf(e.target.closest?.('tr'));
