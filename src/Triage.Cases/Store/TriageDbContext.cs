@@ -61,6 +61,10 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
             c.HasIndex(x => new { x.Line, x.Probability }, "IX_Cases_Open_Line_Probability").HasFilter(OpenOnly);
             c.HasIndex(x => new { x.AssigneeId, x.Probability }, "IX_Cases_Open_Assignee_Probability").HasFilter(OpenOnly);
             c.HasIndex(x => new { x.AssigneeId, x.Line, x.Probability }, "IX_Cases_Open_Assignee_Line_Probability").HasFilter(OpenOnly);
+            // The other sorts a lead uses over the whole open queue, so each first page is read in order, not sorted.
+            c.HasIndex(x => x.DueDate, "IX_Cases_Open_DueDate").HasFilter(OpenOnly);
+            c.HasIndex(x => x.ClaimedAmount, "IX_Cases_Open_ClaimedAmount").HasFilter(OpenOnly);
+            c.HasIndex(x => x.ReceivedDate, "IX_Cases_Open_ReceivedDate").HasFilter(OpenOnly);
             c.Ignore(x => x.CurrentVerdict);
         });
 

@@ -1,0 +1,48 @@
+﻿using Microsoft.EntityFrameworkCore.Migrations;
+
+#nullable disable
+
+namespace Triage.Cases.Store.Migrations.Sqlite
+{
+    /// <inheritdoc />
+    public partial class AddQueueIndexes : Migration
+    {
+        /// <inheritdoc />
+        protected override void Up(MigrationBuilder migrationBuilder)
+        {
+            migrationBuilder.CreateIndex(
+                name: "IX_Cases_Open_ClaimedAmount",
+                table: "Cases",
+                column: "ClaimedAmount",
+                filter: "\"IsOpen\"");
+
+            migrationBuilder.CreateIndex(
+                name: "IX_Cases_Open_DueDate",
+                table: "Cases",
+                column: "DueDate",
+                filter: "\"IsOpen\"");
+
+            migrationBuilder.CreateIndex(
+                name: "IX_Cases_Open_ReceivedDate",
+                table: "Cases",
+                column: "ReceivedDate",
+                filter: "\"IsOpen\"");
+        }
+
+        /// <inheritdoc />
+        protected override void Down(MigrationBuilder migrationBuilder)
+        {
+            migrationBuilder.DropIndex(
+                name: "IX_Cases_Open_ClaimedAmount",
+                table: "Cases");
+
+            migrationBuilder.DropIndex(
+                name: "IX_Cases_Open_DueDate",
+                table: "Cases");
+
+            migrationBuilder.DropIndex(
+                name: "IX_Cases_Open_ReceivedDate",
+                table: "Cases");
+        }
+    }
+}
