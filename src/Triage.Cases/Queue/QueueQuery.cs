@@ -53,4 +53,5 @@ public sealed record QueueRow(
 
 public sealed record DriverField(string Field, string DisplayName);
 
-public sealed record QueuePage(IReadOnlyList<QueueRow> Rows, int Total);
+/// <param name="MoreThanTotal">True when there are more than <see cref="QueueService.CountCap"/> matches and Total is the cap.</param>
+public sealed record QueuePage(IReadOnlyList<QueueRow> Rows, int Total, bool MoreThanTotal = false);

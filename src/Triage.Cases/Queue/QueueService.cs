@@ -12,6 +12,8 @@ namespace Triage.Cases.Queue;
 public sealed class QueueService(TriageDbContext db)
 {
     public const int MaxPageSize = 200;
+    /// <summary>Counting stops here: a count over a filter no index covers reads every matching row.</summary>
+    public const int CountCap = 10_000;
     private static readonly string[] Readers = [Roles.Investigator, Roles.TeamLead, Roles.Manager, Roles.Analyst, Roles.Admin];
     private static readonly string[] SeeEveryone = [Roles.TeamLead, Roles.Manager, Roles.Analyst, Roles.Admin];
 
@@ -25,8 +27,8 @@ public sealed class QueueService(TriageDbContext db)
             throw new ArgumentOutOfRangeException(nameof(q), $"Page size must be between 1 and {MaxPageSize} (got {q.PageSize}).");
         if (q.ReceivedFrom > q.ReceivedTo)
             throw new ArgumentException($"Received from ({q.ReceivedFrom:yyyy-MM-dd}) is after received to ({q.ReceivedTo:yyyy-MM-dd}).", nameof(q));
-        var total = await Filter(db.Cases.AsNoTracking(), actor, q).CountAsync(ct);
-        return new QueuePage(await PageRowsAsync(actor, q, ct), total);
+        var counted = await Filter(db.Cases.AsNoTracking(), actor, q).Take(CountCap + 1).CountAsync(ct);
+        return new QueuePage(await PageRowsAsync(actor, q, ct), Math.Min(counted, CountCap), counted > CountCap);
     }
 
     /// <summary>One page of rows, projected so only the queue's columns are read.</summary>
@@ -64,7 +66,7 @@ public sealed class QueueService(TriageDbContext db)
     private static readonly Expression<Func<Case, QueueRow>> ToRow = c => new QueueRow(c.Id, c.ClaimNumber, c.Line,
         c.ClaimedAmount, c.Probability, c.RiskScore, c.TopDriver1, c.TopDriver2, c.ReceivedDate, c.DueDate, c.Status, c.AssigneeName);
 
-    internal static IQueryable<Case> Filter(IQueryable<Case> cases, Actor actor, QueueQuery q)
+    internal IQueryable<Case> Filter(IQueryable<Case> cases, Actor actor, QueueQuery q)
     {
         var me = actor.UserId;
         var open = q.View switch
@@ -85,9 +87,15 @@ public sealed class QueueService(TriageDbContext db)
         }
         if (!string.IsNullOrWhiteSpace(q.ClaimNumber))
         {
-            // Prefix match, so the claim-number index serves it; claim numbers are stored upper-case.
+            // Claim numbers are issued upper-case. SQLite compares text bytewise, so the range below is exactly
+            // the prefix and lets the claim-number index answer; PostgreSQL's collation may not, so it keeps LIKE alone.
             var number = q.ClaimNumber.Trim().ToUpperInvariant();
             open = open.Where(c => c.ClaimNumber.StartsWith(number));
+            if (db.Database.IsSqlite())
+            {
+                var end = number + char.MaxValue;
+                open = open.Where(c => string.Compare(c.ClaimNumber, number) >= 0 && string.Compare(c.ClaimNumber, end) < 0);
+            }
         }
         return open;
     }

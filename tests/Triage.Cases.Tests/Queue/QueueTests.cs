@@ -114,6 +114,13 @@ public sealed class QueueTests : IAsyncLifetime
         Assert.DoesNotContain(plan, step => step.Contains("TEMP B-TREE"));
     }
 
+    [Fact]
+    public async Task Claim_number_search_reads_the_claim_number_index()
+    {
+        var plan = await PlanAsync(Lead, new QueueQuery(ClaimNumber: "t-0001"));
+        Assert.Contains(plan, step => step.Contains("IX_Cases_Open_ClaimNumber"));
+    }
+
     private async Task<List<string>> PlanAsync(Actor actor, QueueQuery q)
     {
         await using var db = _store.NewContext();

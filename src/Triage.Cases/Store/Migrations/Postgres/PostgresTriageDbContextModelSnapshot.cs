@@ -319,6 +319,9 @@ namespace Triage.Cases.Store.Migrations.Postgres
                     b.HasIndex(new[] { "AssigneeId", "Probability" }, "IX_Cases_Open_Assignee_Probability")
                         .HasFilter("\"IsOpen\"");
 
+                    b.HasIndex(new[] { "ClaimNumber" }, "IX_Cases_Open_ClaimNumber")
+                        .HasFilter("\"IsOpen\"");
+
                     b.HasIndex(new[] { "ClaimedAmount" }, "IX_Cases_Open_ClaimedAmount")
                         .HasFilter("\"IsOpen\"");
 
@@ -510,6 +513,8 @@ namespace Triage.Cases.Store.Migrations.Postgres
 
                     b.HasIndex("CaseId", "Rank")
                         .IsUnique();
+
+                    b.HasIndex(new[] { "CaseId", "Field", "Contribution" }, "IX_Drivers_Case_Field_Contribution");
 
                     b.ToTable("Drivers");
                 });

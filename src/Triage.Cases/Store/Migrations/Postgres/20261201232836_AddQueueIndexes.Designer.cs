@@ -12,7 +12,7 @@ using Triage.Cases.Store;
 namespace Triage.Cases.Store.Migrations.Postgres
 {
     [DbContext(typeof(PostgresTriageDbContext))]
-    [Migration("20261201225036_AddQueueIndexes")]
+    [Migration("20261201232836_AddQueueIndexes")]
     partial class AddQueueIndexes
     {
         /// <inheritdoc />
@@ -322,6 +322,9 @@ namespace Triage.Cases.Store.Migrations.Postgres
                     b.HasIndex(new[] { "AssigneeId", "Probability" }, "IX_Cases_Open_Assignee_Probability")
                         .HasFilter("\"IsOpen\"");
 
+                    b.HasIndex(new[] { "ClaimNumber" }, "IX_Cases_Open_ClaimNumber")
+                        .HasFilter("\"IsOpen\"");
+
                     b.HasIndex(new[] { "ClaimedAmount" }, "IX_Cases_Open_ClaimedAmount")
                         .HasFilter("\"IsOpen\"");
 
@@ -513,6 +516,8 @@ namespace Triage.Cases.Store.Migrations.Postgres
 
                     b.HasIndex("CaseId", "Rank")
                         .IsUnique();
+
+                    b.HasIndex(new[] { "CaseId", "Field", "Contribution" }, "IX_Drivers_Case_Field_Contribution");
 
                     b.ToTable("Drivers");
                 });

@@ -11,7 +11,7 @@ using Triage.Cases.Store;
 namespace Triage.Cases.Store.Migrations.Sqlite
 {
     [DbContext(typeof(SqliteTriageDbContext))]
-    [Migration("20261201225015_AddQueueIndexes")]
+    [Migration("20261201232828_AddQueueIndexes")]
     partial class AddQueueIndexes
     {
         /// <inheritdoc />
@@ -307,6 +307,9 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                     b.HasIndex(new[] { "AssigneeId", "Probability" }, "IX_Cases_Open_Assignee_Probability")
                         .HasFilter("\"IsOpen\"");
 
+                    b.HasIndex(new[] { "ClaimNumber" }, "IX_Cases_Open_ClaimNumber")
+                        .HasFilter("\"IsOpen\"");
+
                     b.HasIndex(new[] { "ClaimedAmount" }, "IX_Cases_Open_ClaimedAmount")
                         .HasFilter("\"IsOpen\"");
 
@@ -490,6 +493,8 @@ namespace Triage.Cases.Store.Migrations.Sqlite
 
                     b.HasIndex("CaseId", "Rank")
                         .IsUnique();
+
+                    b.HasIndex(new[] { "CaseId", "Field", "Contribution" }, "IX_Drivers_Case_Field_Contribution");
 
                     b.ToTable("Drivers");
                 });

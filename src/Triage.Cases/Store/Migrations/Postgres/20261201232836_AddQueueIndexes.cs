@@ -11,6 +11,17 @@ namespace Triage.Cases.Store.Migrations.Postgres
         protected override void Up(MigrationBuilder migrationBuilder)
         {
             migrationBuilder.CreateIndex(
+                name: "IX_Drivers_Case_Field_Contribution",
+                table: "Drivers",
+                columns: new[] { "CaseId", "Field", "Contribution" });
+
+            migrationBuilder.CreateIndex(
+                name: "IX_Cases_Open_ClaimNumber",
+                table: "Cases",
+                column: "ClaimNumber",
+                filter: "\"IsOpen\"");
+
+            migrationBuilder.CreateIndex(
                 name: "IX_Cases_Open_ClaimedAmount",
                 table: "Cases",
                 column: "ClaimedAmount",
@@ -32,6 +43,14 @@ namespace Triage.Cases.Store.Migrations.Postgres
         /// <inheritdoc />
         protected override void Down(MigrationBuilder migrationBuilder)
         {
+            migrationBuilder.DropIndex(
+                name: "IX_Drivers_Case_Field_Contribution",
+                table: "Drivers");
+
+            migrationBuilder.DropIndex(
+                name: "IX_Cases_Open_ClaimNumber",
+                table: "Cases");
+
             migrationBuilder.DropIndex(
                 name: "IX_Cases_Open_ClaimedAmount",
                 table: "Cases");
