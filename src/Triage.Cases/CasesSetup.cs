@@ -53,6 +53,8 @@ public static class CasesSetup
 
         s.AddScoped<StoreInitialiser>();
         s.AddScoped<QueueService>();
+        s.AddScoped<TakeNextService>();
+        s.AddScoped<UserAccounts>();
         s.AddScoped<CaseFileQuery>();
         s.AddScoped<CaseWorkService>();
         s.AddSingleton<CaseEvents>();

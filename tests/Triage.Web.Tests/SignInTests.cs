@@ -1,5 +1,6 @@
 using System.Net;
 using Microsoft.Extensions.DependencyInjection;
+using Triage.Cases.Domain;
 using Triage.Cases.Queue;
 using Triage.Cases.Tests.Support;
 using Triage.Web.Tests.Support;
@@ -100,7 +101,7 @@ public sealed class SignInTests(TriageWebFactory factory) : IClassFixture<Triage
         int caseId;
         using (var scope = factory.Services.CreateScope())
         {
-            var page = await scope.ServiceProvider.GetRequiredService<QueueService>().GetPageAsync(new QueueQuery(PageSize: 50));
+            var page = await scope.ServiceProvider.GetRequiredService<QueueService>().GetPageAsync(Actor.System, new QueueQuery(PageSize: 50));
             Assert.NotEmpty(page.Rows);
             Assert.All(page.Rows, r => Assert.InRange(r.Probability, 0.25, 1.0));
             Assert.Equal(page.Rows.OrderByDescending(r => r.Probability).Select(r => r.CaseId), page.Rows.Select(r => r.CaseId));

@@ -2,6 +2,7 @@ using System.Diagnostics;
 using System.Globalization;
 using Microsoft.Data.Sqlite;
 using Microsoft.EntityFrameworkCore;
+using Triage.Cases.Domain;
 using Triage.Cases.Store;
 
 namespace Triage.Bench.Queue;
@@ -13,8 +14,18 @@ internal static class QueueData
     public static readonly string[] Lines = ["motor", "home", "travel"];
     // Share of cases still open; the rest are closed history that the queue must skip.
     private const double OpenShare = 0.3;
+    // Each case gets two raising drivers from these fields, the first picked with a skewed weight so some
+    // fields are common and some rare, as in the demo.
+    public static readonly (string Field, string Name)[] DriverFields =
+    [
+        ("policy_age_days", "Days from policy start to loss"), ("claimed_amount", "Amount claimed"),
+        ("report_delay_days", "Days from loss to report"), ("repairer_code", "Repairer"),
+        ("cover_raised_days_before_loss", "Cover raised before loss"), ("amount_to_limit", "Amount as share of limit"),
+        ("loss_hour", "Hour of loss"), ("vehicle_age_years", "Vehicle age"),
+    ];
 
     public static string UserId(int i) => $"bench-user-{i:D2}";
+    public static Actor Investigator(int i) => new(UserId(i), $"bench{i:D2}", new HashSet<string> { Roles.Investigator });
     private static string DisplayName(int i) => $"Bench Investigator {i:D2}";
 
     public static async Task EnsureAsync(string file, int cases)
@@ -97,7 +108,7 @@ internal static class QueueData
               "ScoredValuesJson","AssigneeId","OpenedAt","DueDate","Version","ClaimNumber","Line","ClaimedAmount","ReceivedDate",
               "TopDriver1","TopDriver2","AssigneeName")
             VALUES ($id,$id,$status,$open,$p,$score,$lo,-2.5,'bench','{}',$assignee,$date,$due,$version,$number,$line,$amount,$date,
-              'Amount claimed','Days from policy start to loss',$name)
+              $top1,$top2,$name)
             """;
         var id = kase.Parameters.Add("$id", SqliteType.Integer);
         var status = kase.Parameters.Add("$status", SqliteType.Text);
@@ -113,7 +124,22 @@ internal static class QueueData
         var line = kase.Parameters.Add("$line", SqliteType.Text);
         var amount = kase.Parameters.Add("$amount", SqliteType.Real);
         var name = kase.Parameters.Add("$name", SqliteType.Text);
+        var top1 = kase.Parameters.Add("$top1", SqliteType.Text);
+        var top2 = kase.Parameters.Add("$top2", SqliteType.Text);
         kase.Prepare();
+
+        await using var driver = c.CreateCommand();
+        driver.Transaction = tx;
+        driver.CommandText = """
+            INSERT INTO "Drivers" ("CaseId","Rank","Field","DisplayName","ValueText","Contribution","EffectPoints","Comparison")
+            VALUES ($case,$rank,$field,$display,'x',$contribution,$contribution*10,'above typical')
+            """;
+        var dCase = driver.Parameters.Add("$case", SqliteType.Integer);
+        var dRank = driver.Parameters.Add("$rank", SqliteType.Integer);
+        var dField = driver.Parameters.Add("$field", SqliteType.Text);
+        var dDisplay = driver.Parameters.Add("$display", SqliteType.Text);
+        var dContribution = driver.Parameters.Add("$contribution", SqliteType.Real);
+        driver.Prepare();
 
         var random = new Random(3);
         var start = new DateTime(2024, 1, 1, 0, 0, 0, DateTimeKind.Utc);
@@ -144,7 +170,18 @@ internal static class QueueData
             due.Value = Sql(received.AddDays(10));
             version.Value = Guid.NewGuid().ToString().ToUpperInvariant();
             number.Value = num; line.Value = ln; amount.Value = amt;
+            var first = (int)(DriverFields.Length * Math.Pow(random.NextDouble(), 2));
+            var second = (first + 1 + random.Next(DriverFields.Length - 1)) % DriverFields.Length;
+            top1.Value = DriverFields[first].Name; top2.Value = DriverFields[second].Name;
             await kase.ExecuteNonQueryAsync();
+
+            dCase.Value = i;
+            foreach (var (rank, f) in new[] { (1, first), (2, second) })
+            {
+                dRank.Value = rank; dField.Value = DriverFields[f].Field; dDisplay.Value = DriverFields[f].Name;
+                dContribution.Value = 1.0 / rank;
+                await driver.ExecuteNonQueryAsync();
+            }
         }
     }
 

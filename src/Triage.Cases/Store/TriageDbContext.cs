@@ -61,12 +61,19 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
             c.HasIndex(x => new { x.Line, x.Probability }, "IX_Cases_Open_Line_Probability").HasFilter(OpenOnly);
             c.HasIndex(x => new { x.AssigneeId, x.Probability }, "IX_Cases_Open_Assignee_Probability").HasFilter(OpenOnly);
             c.HasIndex(x => new { x.AssigneeId, x.Line, x.Probability }, "IX_Cases_Open_Assignee_Line_Probability").HasFilter(OpenOnly);
+            // The other sorts a lead uses over the whole open queue, so each first page is read in order, not sorted.
+            c.HasIndex(x => x.DueDate, "IX_Cases_Open_DueDate").HasFilter(OpenOnly);
+            c.HasIndex(x => x.ClaimedAmount, "IX_Cases_Open_ClaimedAmount").HasFilter(OpenOnly);
+            c.HasIndex(x => x.ReceivedDate, "IX_Cases_Open_ReceivedDate").HasFilter(OpenOnly);
+            c.HasIndex(x => x.ClaimNumber, "IX_Cases_Open_ClaimNumber").HasFilter(OpenOnly);
             c.Ignore(x => x.CurrentVerdict);
         });
 
         b.Entity<DriverSnapshot>(d =>
         {
             d.HasIndex(x => new { x.CaseId, x.Rank }).IsUnique();
+            // The queue's driver filter asks "did this field raise this case?" per case: answered from the index alone.
+            d.HasIndex(x => new { x.CaseId, x.Field, x.Contribution }, "IX_Drivers_Case_Field_Contribution");
             d.Property(x => x.Field).HasMaxLength(64);
             d.Property(x => x.DisplayName).HasMaxLength(120);
             d.Ignore(x => x.Raises);

@@ -319,10 +319,22 @@ namespace Triage.Cases.Store.Migrations.Postgres
                     b.HasIndex(new[] { "AssigneeId", "Probability" }, "IX_Cases_Open_Assignee_Probability")
                         .HasFilter("\"IsOpen\"");
 
+                    b.HasIndex(new[] { "ClaimNumber" }, "IX_Cases_Open_ClaimNumber")
+                        .HasFilter("\"IsOpen\"");
+
+                    b.HasIndex(new[] { "ClaimedAmount" }, "IX_Cases_Open_ClaimedAmount")
+                        .HasFilter("\"IsOpen\"");
+
+                    b.HasIndex(new[] { "DueDate" }, "IX_Cases_Open_DueDate")
+                        .HasFilter("\"IsOpen\"");
+
                     b.HasIndex(new[] { "Line", "Probability" }, "IX_Cases_Open_Line_Probability")
                         .HasFilter("\"IsOpen\"");
 
                     b.HasIndex(new[] { "Probability" }, "IX_Cases_Open_Probability")
+                        .HasFilter("\"IsOpen\"");
+
+                    b.HasIndex(new[] { "ReceivedDate" }, "IX_Cases_Open_ReceivedDate")
                         .HasFilter("\"IsOpen\"");
 
                     b.ToTable("Cases");
@@ -501,6 +513,8 @@ namespace Triage.Cases.Store.Migrations.Postgres
 
                     b.HasIndex("CaseId", "Rank")
                         .IsUnique();
+
+                    b.HasIndex(new[] { "CaseId", "Field", "Contribution" }, "IX_Drivers_Case_Field_Contribution");
 
                     b.ToTable("Drivers");
                 });

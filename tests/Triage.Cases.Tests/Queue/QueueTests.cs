@@ -3,7 +3,7 @@ using Triage.Cases.Domain;
 using Triage.Cases.Queue;
 using Triage.Cases.Tests.Support;
 
-namespace Triage.Cases.Tests;
+namespace Triage.Cases.Tests.Queue;
 
 public sealed class QueueTests : IAsyncLifetime
 {
@@ -34,10 +34,13 @@ public sealed class QueueTests : IAsyncLifetime
 
     public async Task DisposeAsync() => await _store.DisposeAsync();
 
-    private async Task<QueuePage> Page(QueueQuery q)
+    private static readonly Actor Lead = new("id-lead", "lead", new HashSet<string> { Roles.TeamLead });
+    private Actor Ines => new(_ines.Id, _ines.UserName!, new HashSet<string> { Roles.Investigator });
+
+    private async Task<QueuePage> Page(QueueQuery q, Actor? actor = null)
     {
         await using var db = _store.NewContext();
-        return await new QueueService(db).GetPageAsync(q);
+        return await new QueueService(db).GetPageAsync(actor ?? Lead, q);
     }
 
     [Fact]
@@ -53,7 +56,7 @@ public sealed class QueueTests : IAsyncLifetime
     [Fact]
     public async Task Mine_unassigned_and_line_filter_narrow_the_queue()
     {
-        var mine = await Page(new QueueQuery(QueueView.Mine, _ines.Id));
+        var mine = await Page(new QueueQuery(QueueView.Mine), Ines);
         Assert.Equal(_cases.Count(c => c.IsOpen && c.AssigneeId == _ines.Id), mine.Total);
         Assert.All(mine.Rows, r => Assert.Equal("INES", r.AssigneeName));
 
@@ -61,7 +64,7 @@ public sealed class QueueTests : IAsyncLifetime
         Assert.Equal(_cases.Count(c => c.IsOpen && c.AssigneeId == null && c.Line == "home"), unassigned.Total);
         Assert.All(unassigned.Rows, r => { Assert.Equal("home", r.Line); Assert.Null(r.AssigneeName); });
 
-        var mineMotor = await Page(new QueueQuery(QueueView.Mine, _ines.Id, "motor"));
+        var mineMotor = await Page(new QueueQuery(QueueView.Mine, "motor"), Ines);
         Assert.All(mineMotor.Rows, r => Assert.Equal("motor", r.Line));
         Assert.True(mineMotor.Total < mine.Total);
     }
@@ -83,6 +86,8 @@ public sealed class QueueTests : IAsyncLifetime
         Assert.Equal(byAmount.Rows.Select(r => r.ClaimedAmount).Order(), byAmount.Rows.Select(r => r.ClaimedAmount));
         var byReceived = await Page(new QueueQuery(Sort: QueueSort.Received, PageSize: 100));
         Assert.Equal(byReceived.Rows.Select(r => r.ReceivedDate).OrderDescending(), byReceived.Rows.Select(r => r.ReceivedDate));
+        var byDue = await Page(new QueueQuery(Sort: QueueSort.DueDate, Descending: false, PageSize: 100));
+        Assert.Equal(byDue.Rows.Select(r => r.DueDate).Order(), byDue.Rows.Select(r => r.DueDate));
     }
 
     [Theory]
@@ -93,8 +98,33 @@ public sealed class QueueTests : IAsyncLifetime
     [InlineData(QueueView.AllOpen, null, "IX_Cases_Open_Probability")]
     public async Task The_riskiest_first_page_reads_a_partial_index_without_sorting(QueueView view, string? line, string index)
     {
+        var plan = await PlanAsync(view == QueueView.AllOpen ? Lead : Ines, new QueueQuery(view, line));
+        Assert.Contains(plan, step => step.Contains(index));
+        Assert.DoesNotContain(plan, step => step.Contains("TEMP B-TREE"));
+    }
+
+    [Theory]
+    [InlineData(QueueSort.DueDate, false, "IX_Cases_Open_DueDate")]
+    [InlineData(QueueSort.Amount, true, "IX_Cases_Open_ClaimedAmount")]
+    [InlineData(QueueSort.Received, false, "IX_Cases_Open_ReceivedDate")]
+    public async Task Other_sorts_of_the_whole_queue_read_their_own_partial_index(QueueSort sort, bool descending, string index)
+    {
+        var plan = await PlanAsync(Lead, new QueueQuery(Sort: sort, Descending: descending));
+        Assert.Contains(plan, step => step.Contains(index));
+        Assert.DoesNotContain(plan, step => step.Contains("TEMP B-TREE"));
+    }
+
+    [Fact]
+    public async Task Claim_number_search_reads_the_claim_number_index()
+    {
+        var plan = await PlanAsync(Lead, new QueueQuery(ClaimNumber: "t-0001"));
+        Assert.Contains(plan, step => step.Contains("IX_Cases_Open_ClaimNumber"));
+    }
+
+    private async Task<List<string>> PlanAsync(Actor actor, QueueQuery q)
+    {
         await using var db = _store.NewContext();
-        var sql = new QueueService(db).PageSql(new QueueQuery(view, _ines.Id, line));
+        var sql = new QueueService(db).PageSql(actor, q);
         var connection = db.Database.GetDbConnection();
         await connection.OpenAsync();
         await using var explain = connection.CreateCommand();
@@ -111,8 +141,7 @@ public sealed class QueueTests : IAsyncLifetime
         var plan = new List<string>();
         await using (var r = await explain.ExecuteReaderAsync())
             while (await r.ReadAsync()) plan.Add(r.GetString(3));
-        Assert.Contains(plan, step => step.Contains(index));
-        Assert.DoesNotContain(plan, step => step.Contains("TEMP B-TREE"));
+        return plan;
     }
 
     [Fact]

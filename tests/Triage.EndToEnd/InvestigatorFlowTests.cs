@@ -1,0 +1,52 @@
+using Microsoft.Playwright;
+using Triage.EndToEnd.Pages;
+
+namespace Triage.EndToEnd;
+
+/// <summary>One investigator's morning in a real browser against the app started from its build output.</summary>
+public sealed class InvestigatorFlowTests(AppProcess app) : IClassFixture<AppProcess>, IAsyncLifetime
+{
+    // A demo investigator (seed-cases/team.json) who works motor claims.
+    private const string Investigator = "Maren Quillfeather";
+    private readonly Browser _browser = new();
+    private IPage _page = default!;
+
+    public async Task InitializeAsync()
+    {
+        await _browser.InitializeAsync();
+        _page = await _browser.Context.NewPageAsync();
+    }
+
+    public Task DisposeAsync() => _browser.DisposeAsync();
+
+    [Fact]
+    public async Task Sign_in_move_with_keys_take_next_and_see_drivers_and_checks()
+    {
+        var queue = await new SignInPage(_page, app.BaseUrl).AsDemoAccountAsync(Investigator);
+        await queue.ShowAsync("AllOpen");
+        var claims = await queue.ClaimNumbersAsync();
+        Assert.True(claims.Count >= 2, $"the queue shows {claims.Count} rows");
+        await Screenshots.SaveAsync(_page, "queue");
+
+        // Keyboard only: j, j, k lands on the first row again; Enter opens it.
+        await queue.PressAsync("j");
+        Assert.Equal(claims[0], await queue.FocusedClaimAsync());
+        await queue.PressAsync("ArrowDown");
+        Assert.Equal(claims[1], await queue.FocusedClaimAsync());
+        await queue.PressAsync("k");
+        Assert.Equal(claims[0], await queue.FocusedClaimAsync());
+        var opened = await queue.OpenFocusedWithEnterAsync();
+        Assert.Equal(claims[0], await opened.ClaimNumberAsync());
+
+        await queue.GoToAsync();
+        var taken = await queue.TakeNextAsync();
+        await taken.WaitForDriversAndChecksAsync();
+        await Screenshots.SaveAsync(_page, "case");
+        var number = await taken.ClaimNumberAsync();
+
+        await queue.GoToAsync();
+        await queue.ShowAsync("Mine");
+        await queue.SearchAsync(number);
+        Assert.Equal([number], await queue.ClaimNumbersAsync());
+    }
+}
