@@ -9,20 +9,8 @@ namespace Triage.Scoring.Explaining;
 /// </summary>
 internal sealed class TreeEdges
 {
-    /// <summary>The row takes this edge's feature's branch at every split on it from the root down to here.</summary>
-    public required PathElement[] Condition { get; init; }
-
-    /// <summary>Depth (0 = edges out of the root) of this edge.</summary>
-    public required int[] Depth { get; init; }
-
-    /// <summary>Depth of the nearest edge above on the same feature, or −1.</summary>
-    public required int[] PreviousDepth { get; init; }
-
-    /// <summary>The child node, or −1 when the child is a leaf.</summary>
-    public required int[] Child { get; init; }
-
-    /// <summary>Tree weight × leaf value when the child is a leaf.</summary>
-    public required double[] LeafValue { get; init; }
+    /// <summary>Node n owns Edges[2n] (left) and Edges[2n + 1] (right).</summary>
+    public required Edge[] Edges { get; init; }
 
     /// <summary>Root node of each kept tree.</summary>
     public required int[] Roots { get; init; }
@@ -54,11 +42,7 @@ internal sealed class TreeEdges
         }
         return new TreeEdges
         {
-            Condition = [.. builder.Condition],
-            Depth = [.. builder.Depth],
-            PreviousDepth = [.. builder.PreviousDepth],
-            Child = [.. builder.Child],
-            LeafValue = [.. builder.LeafValue],
+            Edges = [.. builder.Edges],
             Roots = [.. roots],
             Constant = constant,
             ExpectedValue = constant + builder.Expected,
@@ -71,11 +55,7 @@ internal sealed class TreeEdges
     {
         /// <summary>The merged condition per feature on the current path, with the depth of its last edge.</summary>
         private readonly List<(PathElement Element, int Depth)> _path = [];
-        public List<PathElement> Condition { get; } = [];
-        public List<int> Depth { get; } = [];
-        public List<int> PreviousDepth { get; } = [];
-        public List<int> Child { get; } = [];
-        public List<double> LeafValue { get; } = [];
+        public List<Edge> Edges { get; } = [];
         public double Expected { get; private set; }
         public int MaxDepth { get; private set; }
         public int MaxFeatures { get; private set; }
@@ -83,15 +63,9 @@ internal sealed class TreeEdges
         /// <summary>Numbers the node, then its subtrees; returns the node's number.</summary>
         public int Node(RegressionTree tree, double weight, int node, int depth, double reach)
         {
-            var number = Child.Count / 2;
-            for (var side = 0; side < 2; side++)
-            {
-                Condition.Add(default);
-                Depth.Add(depth);
-                PreviousDepth.Add(-1);
-                Child.Add(-1);
-                LeafValue.Add(0.0);
-            }
+            var number = Edges.Count / 2;
+            Edges.Add(default);
+            Edges.Add(default);
             Edge(tree, weight, node, depth, reach, 2 * number, goLeft: true);
             Edge(tree, weight, node, depth, reach, 2 * number + 1, goLeft: false);
             return number;
@@ -115,22 +89,40 @@ internal sealed class TreeEdges
             if (tree.GoesLeft(node, 0.0) != goLeft) element.Special &= ~PathElement.ZeroBit;
             var ratio = childCover / tree.NodeCover[node];
             element.ZeroFraction *= ratio;
-            Condition[edge] = element;
-            PreviousDepth[edge] = at >= 0 ? before.Depth : -1;
+            var result = new Edge { Condition = element, Depth = depth, PreviousDepth = at >= 0 ? before.Depth : -1, Child = -1 };
 
             if (at >= 0) _path[at] = (element, depth);
             else _path.Add((element, depth));
             MaxFeatures = Math.Max(MaxFeatures, _path.Count);
             if (child < 0)
             {
-                var value = weight * tree.LeafValue[~child];
-                LeafValue[edge] = value;
-                Expected += value * reach * ratio;
+                result.LeafValue = weight * tree.LeafValue[~child];
+                Expected += result.LeafValue * reach * ratio;
                 MaxDepth = Math.Max(MaxDepth, depth + 1);
             }
-            else Child[edge] = Node(tree, weight, child, depth + 1, reach * ratio);
+            else result.Child = Node(tree, weight, child, depth + 1, reach * ratio);
+            Edges[edge] = result;
             if (at >= 0) _path[at] = before;
             else _path.RemoveAt(_path.Count - 1);
         }
     }
+}
+
+/// <summary>One edge: the merged condition down to it, and what it leads to.</summary>
+internal struct Edge
+{
+    /// <summary>The row takes this edge's feature's branch at every split on it from the root down to here.</summary>
+    public PathElement Condition;
+
+    /// <summary>Tree weight × leaf value when the child is a leaf.</summary>
+    public double LeafValue;
+
+    /// <summary>The child node, or −1 when the child is a leaf.</summary>
+    public int Child;
+
+    /// <summary>Depth (0 = edges out of the root) of this edge.</summary>
+    public int Depth;
+
+    /// <summary>Depth of the nearest edge above on the same feature, or −1.</summary>
+    public int PreviousDepth;
 }

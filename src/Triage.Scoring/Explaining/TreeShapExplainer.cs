@@ -92,13 +92,13 @@ public sealed class TreeShapExplainer
         /// <summary>1 / factor of each edge on the current path, by depth.</summary>
         private readonly Vector512<double>[] _inverses = new Vector512<double>[depth + 1];
 
-        public TreeEdges Edges = null!;
+        public TreeEdges Model = null!;
         public double Output;
 
         public static Walk For(TreeEdges edges, int features, ref Walk? slot)
         {
             if (slot is null || slot._x.Length < features || slot._inverses.Length <= edges.MaxDepth) slot = new Walk(features, edges.MaxDepth);
-            slot.Edges = edges;
+            slot.Model = edges;
             return slot;
         }
 
@@ -121,50 +121,53 @@ public sealed class TreeShapExplainer
         /// <summary>Walks the subtree under node with G so far; returns Σ v·G over its leaves.</summary>
         public Vector512<double> Visit(int node, Vector512<double> g, int holds, Vector512<double> t)
         {
-            ref var condition = ref MemoryMarshal.GetArrayDataReference(Edges.Condition);
-            ref var sums = ref MemoryMarshal.GetArrayDataReference(_sums);
-            ref var below = ref MemoryMarshal.GetArrayDataReference(_below);
-            ref var inverses = ref MemoryMarshal.GetArrayDataReference(_inverses);
-            var total = Vector512<double>.Zero;
-            for (var edge = 2 * node; edge < 2 * node + 2; edge++)
-            {
-                ref readonly var c = ref Unsafe.Add(ref condition, edge);
-                var f = c.Feature;
-                var one = c.Satisfied(_x[f], _kind[f]);
-                var z = c.ZeroFraction;
-                if (one == 0 && z == 0.0) continue; // f ≡ 0: nothing below contributes anywhere
-                var slope = one - z;
-                var factor = Vector512.FusedMultiplyAdd(Vector512.Create(slope), t, Vector512.Create(z));
-                var previous = Edges.PreviousDepth[edge];
-                // A feature seen above: its new merged condition replaces the old factor.
-                var rest = previous < 0 ? g : g * Unsafe.Add(ref inverses, previous);
-                ref var sameFeature = ref Unsafe.Add(ref below, f);
-                var child = Edges.Child[edge];
-                Vector512<double> sub, ownOverFactor;
-                if (child < 0)
-                {
-                    var v = Edges.LeafValue[edge];
-                    ownOverFactor = rest * v;
-                    sub = ownOverFactor * factor;
-                    if ((holds & one) != 0) Output += v; // every condition holds: the row lands here
-                }
-                else
-                {
-                    var inverse = Reciprocal(factor);
-                    Unsafe.Add(ref inverses, Edges.Depth[edge]) = inverse;
-                    var saved = sameFeature;
-                    sameFeature = Vector512<double>.Zero;
-                    sub = Visit(child, rest * factor, holds & one, t);
-                    // Leaves under a deeper edge on f are that edge's to count.
-                    ownOverFactor = (sub - sameFeature) * inverse;
-                    sameFeature = saved;
-                }
-                ref var sum = ref Unsafe.Add(ref sums, f);
-                sum = Vector512.FusedMultiplyAdd(Vector512.Create(slope), ownOverFactor, sum);
-                sameFeature += sub;
-                total += sub;
-            }
+            ref var edges = ref MemoryMarshal.GetArrayDataReference(Model.Edges);
+            ref readonly var first = ref Unsafe.Add(ref edges, 2 * node);
+            // Both edges split on one feature, seen at the same depth above (if at all).
+            var f = first.Condition.Feature;
+            var previous = first.PreviousDepth;
+            // A feature seen above: its new merged condition replaces the old factor.
+            var rest = previous < 0 ? g : g * Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_inverses), previous);
+            var value = Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_x), f);
+            var kind = Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_kind), f);
+            ref var sameFeature = ref Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_below), f);
+            var shares = Vector512<double>.Zero;
+            var total = Take(in first, value, kind, rest, holds, t, ref sameFeature, ref shares)
+                + Take(in Unsafe.Add(ref Unsafe.AsRef(in first), 1), value, kind, rest, holds, t, ref sameFeature, ref shares);
+            Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_sums), f) += shares;
+            sameFeature += total;
             return total;
+        }
+
+        /// <summary>
+        /// One edge: returns Σ v·G over the leaves below it and adds (o − z)·(v·G)/f over those of them
+        /// it is the deepest edge on its feature for to shares.
+        /// </summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        private Vector512<double> Take(in Edge e, double value, int kind, Vector512<double> rest, int holds, Vector512<double> t,
+            ref Vector512<double> sameFeature, ref Vector512<double> shares)
+        {
+            var one = e.Condition.Satisfied(value, kind);
+            var z = e.Condition.ZeroFraction;
+            if (one == 0 && z == 0.0) return Vector512<double>.Zero; // f ≡ 0: nothing below contributes anywhere
+            var slope = one - z;
+            var factor = Vector512.FusedMultiplyAdd(Vector512.Create(slope), t, Vector512.Create(z));
+            if (e.Child < 0)
+            {
+                var v = e.LeafValue;
+                if ((holds & one) != 0) Output += v; // every condition holds: the row lands here
+                shares = Vector512.FusedMultiplyAdd(Vector512.Create(slope * v), rest, shares);
+                return rest * v * factor;
+            }
+            var inverse = Reciprocal(factor);
+            Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_inverses), e.Depth) = inverse;
+            var saved = sameFeature;
+            sameFeature = Vector512<double>.Zero;
+            var sub = Visit(e.Child, rest * factor, holds & one, t);
+            // Leaves under a deeper edge on the feature are that edge's to count.
+            shares = Vector512.FusedMultiplyAdd(Vector512.Create(slope), (sub - sameFeature) * inverse, shares);
+            sameFeature = saved;
+            return sub;
         }
 
         /// <summary>1/f to within an ulp or so: the 14-bit estimate and two Newton steps are far cheaper than a divide.</summary>
