@@ -1,5 +1,7 @@
 using System.Runtime.CompilerServices;
 using System.Runtime.InteropServices;
+using System.Runtime.Intrinsics;
+using System.Runtime.Intrinsics.X86;
 using Triage.Scoring.Trees;
 
 namespace Triage.Scoring.Explaining;
@@ -10,42 +12,45 @@ namespace Triage.Scoring.Explaining;
 /// immutable and safe to share between threads.
 /// </summary>
 /// <remarks>
-/// Each leaf is a path of merged feature conditions. For a row, a condition holds (one fraction 1) or
-/// not (0). The leaf's Shapley weights are then the coefficients of G(t) = Π_j (z_j + o_j·t) over its
-/// path elements (z = zero fraction): the conditions that fail only scale G and share one sum, so the
-/// work per leaf is quadratic in the number of conditions the row satisfies, not cubic in the path
-/// length (compare Yang 2021, Fast TreeSHAP, arXiv:2109.09847).
+/// A leaf's path has one merged condition j per feature, with zero fraction z_j and, for a row,
+/// o_j = 1 when the row satisfies it, else 0. Its Shapley weights are the Beta integrals
+/// |S|!(d−1−|S|)!/d! = ∫₀¹ t^|S| (1−t)^(d−1−|S|) dt, so its share of φ_i is v·(o_i − z_i)·∫₀¹ G(t)/f_i(t) dt
+/// with f_j(t) = z_j + (o_j − z_j)·t and G = Π_j f_j — the multilinear-extension form of the Shapley
+/// value (Owen 1972, Management Science 18(5):P64–P79). That is linear in v·G, so one depth-first walk
+/// per tree sums v·G over the leaves below each edge and divides by the edge's factor once for all of
+/// them (the sharing of Yu et al. 2022, Linear TreeShap, arXiv:2209.08192). G has degree at most the
+/// number of features on a path, so Gauss–Legendre quadrature with half that many nodes integrates
+/// exactly; polynomials are kept as their values at those nodes, one vector lane per node.
 /// </remarks>
 public sealed class TreeShapExplainer
 {
-    private readonly LeafPaths _paths;
+    /// <summary>Quadrature nodes per vector.</summary>
+    private const int Lanes = 8;
 
-    /// <summary>Shapley weight |S|!(d−1−|S|)!/d! at [d · _stride + |S|].</summary>
-    private readonly double[] _weights;
+    private readonly TreeEdges _edges;
+    private readonly Vector512<double>[] _nodes;
+    private readonly Vector512<double>[] _quadratureWeights;
 
-    private readonly int _stride;
-
-    [ThreadStatic] private static Scratch? t_scratch;
+    [ThreadStatic] private static Walk? t_walk;
 
     public TreeShapExplainer(TreeEnsemble ensemble)
     {
-        _paths = LeafPaths.Build(ensemble);
+        _edges = TreeEdges.Build(ensemble);
         FeatureCount = ensemble.FeatureCount;
-        _stride = _paths.MaxLength + 1;
-        _weights = new double[_stride * _stride];
-        for (var d = 1; d <= _paths.MaxLength; d++)
+        // n = Lanes · chunks nodes are exact up to degree 2n − 1 >= MaxFeatures − 1.
+        var chunks = Math.Max(1, (_edges.MaxFeatures + 2 * Lanes - 1) / (2 * Lanes));
+        var (nodes, weights) = GaussLegendre.OnUnitInterval(Lanes * chunks);
+        _nodes = new Vector512<double>[chunks];
+        _quadratureWeights = new Vector512<double>[chunks];
+        for (var c = 0; c < chunks; c++)
         {
-            var w = 1.0 / d;
-            for (var k = 0; k < d; k++)
-            {
-                _weights[d * _stride + k] = w;
-                w *= (k + 1.0) / (d - k - 1.0);
-            }
+            _nodes[c] = Vector512.Create(nodes.AsSpan(c * Lanes, Lanes));
+            _quadratureWeights[c] = Vector512.Create(weights.AsSpan(c * Lanes, Lanes));
         }
     }
 
     /// <summary>The model's output when no feature is known: E[f] under the tree covers.</summary>
-    public double ExpectedValue => _paths.ExpectedValue;
+    public double ExpectedValue => _edges.ExpectedValue;
 
     public int FeatureCount { get; }
 
@@ -61,137 +66,117 @@ public sealed class TreeShapExplainer
         phi = phi[..FeatureCount];
         phi.Clear();
 
-        var scratch = Scratch.For(_paths.MaxLength, FeatureCount, ref t_scratch);
-        var kinds = scratch.Kinds;
-        for (var f = 0; f < FeatureCount; f++) kinds[f] = PathElement.KindOf(x[f]);
-
-        // Refs instead of indexers: the loops below are the hot path and their bounds are known.
-        ref var xs = ref MemoryMarshal.GetReference(x);
-        ref var phis = ref MemoryMarshal.GetReference(phi);
-        ref var kind = ref MemoryMarshal.GetArrayDataReference(kinds);
-        ref var onesZero = ref MemoryMarshal.GetArrayDataReference(scratch.OnesZero);
-        ref var onesFeature = ref MemoryMarshal.GetArrayDataReference(scratch.OnesFeature);
-        ref var zerosZero = ref MemoryMarshal.GetArrayDataReference(scratch.ZerosZero);
-        ref var zerosFeature = ref MemoryMarshal.GetArrayDataReference(scratch.ZerosFeature);
-        ref var g = ref MemoryMarshal.GetArrayDataReference(scratch.Poly);
-        ref var elements = ref MemoryMarshal.GetArrayDataReference(_paths.Elements);
-        ref var starts = ref MemoryMarshal.GetArrayDataReference(_paths.LeafStart);
-        ref var values = ref MemoryMarshal.GetArrayDataReference(_paths.LeafValue);
-        ref var weights = ref MemoryMarshal.GetArrayDataReference(_weights);
-        var output = _paths.Constant;
-        var leaves = _paths.LeafCount;
-
-        for (var leaf = 0; leaf < leaves; leaf++)
+        var walk = Walk.For(_edges, FeatureCount, ref t_walk);
+        walk.Start(x[..FeatureCount]);
+        var output = _edges.Constant;
+        // Lanes are independent: with more nodes than one vector holds, walk once per vector.
+        for (var c = 0; c < _nodes.Length; c++)
         {
-            int start = Unsafe.Add(ref starts, leaf), end = Unsafe.Add(ref starts, leaf + 1);
-            int m = 0, nz = 0;
-            for (var e = start; e < end; e++)
-            {
-                ref readonly var el = ref Unsafe.Add(ref elements, e);
-                var one = el.Satisfied(Unsafe.Add(ref xs, el.Feature), Unsafe.Add(ref kind, el.Feature));
-                // Write to both lists and advance one: no branch on the (unpredictable) outcome.
-                Unsafe.Add(ref onesZero, m) = el.ZeroFraction;
-                Unsafe.Add(ref onesFeature, m) = el.Feature;
-                Unsafe.Add(ref zerosZero, nz) = el.ZeroFraction;
-                Unsafe.Add(ref zerosFeature, nz) = el.Feature;
-                m += one;
-                nz += one ^ 1;
-            }
-            var v = Unsafe.Add(ref values, leaf);
-            if (nz == 0) output += v; // every condition holds: the row lands in this leaf
-            var z0 = 1.0;
-            for (var i = 0; i < nz; i++) z0 *= Unsafe.Add(ref zerosZero, i);
-            if (z0 == 0.0) continue;  // G ≡ 0: the leaf contributes to no attribution
-
-            var scale = v * z0;
-            ref var w = ref Unsafe.Add(ref weights, (end - start) * _stride);
-            var sum = m switch
-            {
-                // Few satisfied conditions are the common case: closed forms avoid short loops that mispredict.
-                0 => w,
-                1 => One(ref phis, ref onesZero, ref onesFeature, ref w, scale),
-                2 => Two(ref phis, ref onesZero, ref onesFeature, ref w, scale),
-                3 => Three(ref phis, ref onesZero, ref onesFeature, ref w, scale),
-                _ => Many(ref phis, ref onesZero, ref onesFeature, ref w, ref g, m, scale),
-            };
-
-            // A failed condition i has o = 0: its (0 − z_i) · G/z_i weighted is the same for all of them.
-            var share = -scale * sum;
-            for (var i = 0; i < nz; i++) Unsafe.Add(ref phis, Unsafe.Add(ref zerosFeature, i)) += share;
+            walk.Output = 0.0;
+            foreach (var root in _edges.Roots) walk.Visit(root, Vector512<double>.One, 1, _nodes[c]);
+            if (c == 0) output += walk.Output;
+            walk.Finish(phi, _quadratureWeights[c]);
         }
         return output;
     }
 
-    // Each helper adds scale · (1 − z_i) · Σ_k q_k w_k to phi for every satisfied condition i, where
-    // Q = G / (z_i + t) and G(t) = Π over satisfied conditions (z + t), and returns Σ_k g_k w_k.
-
-    private static double One(ref double phi, ref double z, ref int f, ref double w, double scale)
+    /// <summary>Per-thread state of one row's walk, so rows allocate nothing.</summary>
+    private sealed class Walk(int features, int depth)
     {
-        var a = z;
-        Unsafe.Add(ref phi, f) += scale * (1 - a) * w;
-        return a * w + Unsafe.Add(ref w, 1);
-    }
+        private readonly double[] _x = new double[features];
+        private readonly int[] _kind = new int[features];
+        /// <summary>Per feature: Σ (o − z)·(v·G below the edge)/f over its edges, at each node.</summary>
+        private readonly Vector512<double>[] _sums = new Vector512<double>[features];
+        /// <summary>Per feature: Σ v·G over the leaves below the nearest edges on it under the current one.</summary>
+        private readonly Vector512<double>[] _below = new Vector512<double>[features];
+        /// <summary>1 / factor of each edge on the current path, by depth.</summary>
+        private readonly Vector512<double>[] _inverses = new Vector512<double>[depth + 1];
 
-    private static double Two(ref double phi, ref double z, ref int f, ref double w, double scale)
-    {
-        double a = z, b = Unsafe.Add(ref z, 1), w0 = w, w1 = Unsafe.Add(ref w, 1);
-        Unsafe.Add(ref phi, f) += scale * (1 - a) * (b * w0 + w1);
-        Unsafe.Add(ref phi, Unsafe.Add(ref f, 1)) += scale * (1 - b) * (a * w0 + w1);
-        return a * b * w0 + (a + b) * w1 + Unsafe.Add(ref w, 2);
-    }
+        public TreeEdges Model = null!;
+        public double Output;
 
-    private static double Three(ref double phi, ref double z, ref int f, ref double w, double scale)
-    {
-        double a = z, b = Unsafe.Add(ref z, 1), c = Unsafe.Add(ref z, 2);
-        double w0 = w, w1 = Unsafe.Add(ref w, 1), w2 = Unsafe.Add(ref w, 2);
-        Unsafe.Add(ref phi, f) += scale * (1 - a) * (b * c * w0 + (b + c) * w1 + w2);
-        Unsafe.Add(ref phi, Unsafe.Add(ref f, 1)) += scale * (1 - b) * (a * c * w0 + (a + c) * w1 + w2);
-        Unsafe.Add(ref phi, Unsafe.Add(ref f, 2)) += scale * (1 - c) * (a * b * w0 + (a + b) * w1 + w2);
-        return a * b * c * w0 + (a * b + a * c + b * c) * w1 + (a + b + c) * w2 + Unsafe.Add(ref w, 3);
-    }
-
-    private static double Many(ref double phi, ref double onesZero, ref int onesFeature, ref double w, ref double g, int m, double scale)
-    {
-        g = 1.0;
-        for (var k = 0; k < m; k++)
+        public static Walk For(TreeEdges edges, int features, ref Walk? slot)
         {
-            var z = Unsafe.Add(ref onesZero, k);
-            Unsafe.Add(ref g, k + 1) = Unsafe.Add(ref g, k);
-            for (var j = k; j > 0; j--) Unsafe.Add(ref g, j) = Unsafe.Add(ref g, j) * z + Unsafe.Add(ref g, j - 1);
-            g *= z;
-        }
-        for (var i = 0; i < m; i++)
-        {
-            // Synthetic division from the top: errors shrink by z_i <= 1 at each step.
-            var z = Unsafe.Add(ref onesZero, i);
-            var q = Unsafe.Add(ref g, m);
-            var acc = q * Unsafe.Add(ref w, m - 1);
-            for (var k = m - 1; k > 0; k--)
-            {
-                q = Unsafe.Add(ref g, k) - z * q;
-                acc += q * Unsafe.Add(ref w, k - 1);
-            }
-            Unsafe.Add(ref phi, Unsafe.Add(ref onesFeature, i)) += scale * (1.0 - z) * acc;
-        }
-        var sum = 0.0;
-        for (var k = 0; k <= m; k++) sum += Unsafe.Add(ref g, k) * Unsafe.Add(ref w, k);
-        return sum;
-    }
-
-    /// <summary>Per-thread buffers, so rows allocate nothing.</summary>
-    private sealed class Scratch(int capacity, int features)
-    {
-        public double[] OnesZero { get; } = new double[capacity + 1];
-        public int[] OnesFeature { get; } = new int[capacity + 1];
-        public double[] ZerosZero { get; } = new double[capacity + 1];
-        public int[] ZerosFeature { get; } = new int[capacity + 1];
-        public double[] Poly { get; } = new double[capacity + 1];
-        public int[] Kinds { get; } = new int[features];
-
-        public static Scratch For(int capacity, int features, ref Scratch? slot)
-        {
-            if (slot is null || slot.Poly.Length <= capacity || slot.Kinds.Length < features) slot = new Scratch(capacity, features);
+            if (slot is null || slot._x.Length < features || slot._inverses.Length <= edges.MaxDepth) slot = new Walk(features, edges.MaxDepth);
+            slot.Model = edges;
             return slot;
+        }
+
+        public void Start(ReadOnlySpan<double> x)
+        {
+            x.CopyTo(_x);
+            for (var f = 0; f < x.Length; f++) _kind[f] = PathElement.KindOf(x[f]);
+        }
+
+        public void Finish(Span<double> phi, Vector512<double> weights)
+        {
+            for (var f = 0; f < phi.Length; f++)
+            {
+                phi[f] += Vector512.Dot(_sums[f], weights);
+                _sums[f] = Vector512<double>.Zero;
+                _below[f] = Vector512<double>.Zero;
+            }
+        }
+
+        /// <summary>Walks the subtree under node with G so far; returns Σ v·G over its leaves.</summary>
+        public Vector512<double> Visit(int node, Vector512<double> g, int holds, Vector512<double> t)
+        {
+            ref var edges = ref MemoryMarshal.GetArrayDataReference(Model.Edges);
+            ref readonly var first = ref Unsafe.Add(ref edges, 2 * node);
+            // Both edges split on one feature, seen at the same depth above (if at all).
+            var f = first.Condition.Feature;
+            var previous = first.PreviousDepth;
+            // A feature seen above: its new merged condition replaces the old factor.
+            var rest = previous < 0 ? g : g * Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_inverses), previous);
+            var value = Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_x), f);
+            var kind = Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_kind), f);
+            ref var sameFeature = ref Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_below), f);
+            var shares = Vector512<double>.Zero;
+            var total = Take(in first, value, kind, rest, holds, t, ref sameFeature, ref shares)
+                + Take(in Unsafe.Add(ref Unsafe.AsRef(in first), 1), value, kind, rest, holds, t, ref sameFeature, ref shares);
+            Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_sums), f) += shares;
+            sameFeature += total;
+            return total;
+        }
+
+        /// <summary>
+        /// One edge: returns Σ v·G over the leaves below it and adds (o − z)·(v·G)/f over those of them
+        /// it is the deepest edge on its feature for to shares.
+        /// </summary>
+        [MethodImpl(MethodImplOptions.AggressiveInlining)]
+        private Vector512<double> Take(in Edge e, double value, int kind, Vector512<double> rest, int holds, Vector512<double> t,
+            ref Vector512<double> sameFeature, ref Vector512<double> shares)
+        {
+            var one = e.Condition.Satisfied(value, kind);
+            var z = e.Condition.ZeroFraction;
+            if (one == 0 && z == 0.0) return Vector512<double>.Zero; // f ≡ 0: nothing below contributes anywhere
+            var slope = one - z;
+            var factor = Vector512.FusedMultiplyAdd(Vector512.Create(slope), t, Vector512.Create(z));
+            if (e.Child < 0)
+            {
+                var v = e.LeafValue;
+                if ((holds & one) != 0) Output += v; // every condition holds: the row lands here
+                shares = Vector512.FusedMultiplyAdd(Vector512.Create(slope * v), rest, shares);
+                return rest * v * factor;
+            }
+            var inverse = Reciprocal(factor);
+            Unsafe.Add(ref MemoryMarshal.GetArrayDataReference(_inverses), e.Depth) = inverse;
+            var saved = sameFeature;
+            sameFeature = Vector512<double>.Zero;
+            var sub = Visit(e.Child, rest * factor, holds & one, t);
+            // Leaves under a deeper edge on the feature are that edge's to count.
+            shares = Vector512.FusedMultiplyAdd(Vector512.Create(slope), (sub - sameFeature) * inverse, shares);
+            sameFeature = saved;
+            return sub;
+        }
+
+        /// <summary>1/f to within an ulp or so: the 14-bit estimate and two Newton steps are far cheaper than a divide.</summary>
+        private static Vector512<double> Reciprocal(Vector512<double> f)
+        {
+            if (!Avx512F.IsSupported) return Vector512<double>.One / f;
+            var r = Avx512F.Reciprocal14(f);
+            r = Vector512.FusedMultiplyAdd(r, Vector512.FusedMultiplyAdd(-f, r, Vector512<double>.One), r);
+            return Vector512.FusedMultiplyAdd(r, Vector512.FusedMultiplyAdd(-f, r, Vector512<double>.One), r);
         }
     }
 }
