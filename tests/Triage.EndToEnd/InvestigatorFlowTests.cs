@@ -20,7 +20,7 @@ public sealed class InvestigatorFlowTests(AppProcess app) : IClassFixture<AppPro
     public Task DisposeAsync() => _browser.DisposeAsync();
 
     [Fact]
-    public async Task Sign_in_move_with_keys_take_next_and_see_drivers_and_checks()
+    public async Task Sign_in_move_with_keys_take_next_work_the_case_and_close_it()
     {
         var queue = await new SignInPage(_page, app.BaseUrl).AsDemoAccountAsync(Investigator);
         await queue.ShowAsync("AllOpen");
@@ -43,10 +43,25 @@ public sealed class InvestigatorFlowTests(AppProcess app) : IClassFixture<AppPro
         await taken.WaitForDriversAndChecksAsync();
         await Screenshots.SaveAsync(_page, "case");
         var number = await taken.ClaimNumberAsync();
+        var takenId = taken.Id;
 
         await queue.GoToAsync();
         await queue.ShowAsync("Mine");
         await queue.SearchAsync(number);
         Assert.Equal([number], await queue.ClaimNumbersAsync());
+
+        // Work the taken case: tick a check, download the report, record a verdict.
+        await _page.GotoAsync(new Uri(app.BaseUrl, $"cases/{takenId}").ToString());
+        var work = await CaseView.WaitAsync(_page);
+        await work.WaitForDriversAndChecksAsync();
+        await work.TickFirstCheckAsync("Policy bought online two weeks before the loss");
+        var pdf = await work.DownloadReportAsync();
+        Assert.Equal("%PDF", System.Text.Encoding.ASCII.GetString(pdf, 0, 4));
+        await work.RecordVerdictAsync("NotFraud", "Facts checked with the claimant and the repairer");
+
+        // A closed case leaves the open queue.
+        await queue.GoToAsync();
+        await queue.ShowAsync("Mine");
+        await queue.SearchAsync(number, expectedRows: 0);
     }
 }

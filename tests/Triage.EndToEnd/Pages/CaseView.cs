@@ -3,7 +3,7 @@ using Microsoft.Playwright;
 
 namespace Triage.EndToEnd.Pages;
 
-/// <summary>The case page. Steps for checks, verdicts and the report go here as the page grows.</summary>
+/// <summary>The case page: finding it and reading its drivers (work on the case is in CaseViewSteps.cs).</summary>
 public sealed partial class CaseView(IPage page)
 {
     public static async Task<CaseView> WaitAsync(IPage page)
@@ -30,6 +30,6 @@ public sealed partial class CaseView(IPage page)
     [GeneratedRegex(@"Case\s+(\S+)")]
     private static partial Regex CaseTitle();
 
-    [GeneratedRegex("raised", RegexOptions.IgnoreCase)]
+    [GeneratedRegex("why this score", RegexOptions.IgnoreCase)]
     private static partial Regex DriverHeading();
 }

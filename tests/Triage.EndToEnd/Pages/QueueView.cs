@@ -29,10 +29,11 @@ public sealed partial class QueueView(IPage page, Uri baseUrl)
         await page.Locator($"[data-testid=queue-grid] tr.view-{view}, [data-testid=queue-empty]").First.WaitForAsync();
     }
 
-    public async Task SearchAsync(string claimNumber)
+    /// <summary>Searches by claim number and waits until the grid shows the expected number of rows.</summary>
+    public async Task SearchAsync(string claimNumber, int expectedRows = 1)
     {
         await page.Locator("[data-testid=search] input, input[data-testid=search]").First.FillAsync(claimNumber);
-        await Assertions.Expect(ClaimLinks).ToHaveCountAsync(1);
+        await Assertions.Expect(ClaimLinks).ToHaveCountAsync(expectedRows);
     }
 
     public async Task<IReadOnlyList<string>> ClaimNumbersAsync() => (await ClaimLinks.AllInnerTextsAsync()).Select(t => t.Trim()).ToList();
