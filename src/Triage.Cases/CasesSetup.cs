@@ -6,10 +6,12 @@ using Microsoft.Extensions.DependencyInjection.Extensions;
 using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Options;
 using Triage.Cases.Accounts;
+using Triage.Cases.ApiKeys;
 using Triage.Cases.CaseFile;
 using Triage.Cases.Domain;
 using Triage.Cases.FirstStart;
 using Triage.Cases.Hosting;
+using Triage.Cases.Intake;
 using Triage.Cases.Options;
 using Triage.Cases.Queue;
 using Triage.Cases.Store;
@@ -27,6 +29,7 @@ public static class CasesSetup
         s.AddOptions<StorageOptions>().BindConfiguration(StorageOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddOptions<DemoOptions>().BindConfiguration(DemoOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddOptions<QueueOptions>().BindConfiguration(QueueOptions.Section).ValidateDataAnnotations().ValidateOnStart();
+        s.AddOptions<IntakeOptions>().BindConfiguration(IntakeOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddSingleton<IValidateOptions<StorageOptions>, StorageOptionsValidator>();
         s.AddSingleton<IValidateOptions<DemoOptions>, DemoOptionsValidator>();
         s.AddSingleton<TriagePaths>();
@@ -54,6 +57,9 @@ public static class CasesSetup
         s.AddScoped<QueueService>();
         s.AddScoped<CaseFileQuery>();
         s.AddScoped<TeamDirectory>();
+        s.AddSingleton<ServingModels>();
+        s.AddScoped<ClaimIntake>();
+        s.AddScoped<ApiKeyService>();
         return b;
     }
 
