@@ -4,6 +4,7 @@ using MudBlazor.Services;
 using Triage.Cases.Domain;
 using Triage.Web.Account;
 using Triage.Web.Components;
+using Triage.Web.Intake;
 
 namespace Triage.Web;
 
@@ -38,6 +39,7 @@ public static class WebSetup
         app.UseAntiforgery();
         app.MapStaticAssets().AllowAnonymous();
         app.MapAccountEndpoints();
+        app.MapIntakeEndpoints();
         app.MapRazorComponents<App>().AddInteractiveServerRenderMode();
         return app;
     }

@@ -56,13 +56,13 @@ public sealed class ClaimIntake(
         {
             db.AuditEvents.Add(new AuditEvent(by.UserName, "claims.rejected", Trim($"{source.Name}: {check.Errors.Total} error(s) in {check.Rows} row(s); first: {check.Errors.Listed[0]}"), now));
             await db.SaveChangesAsync(ct);
-            return new ImportReport(source.Name, check.Rows, 0, 0, 0, check.Errors.Total, check.Errors.Listed);
+            return new ImportReport(source.Name, check.Rows, 0, 0, 0, check.Errors.Total, check.Errors.Listed) { OverRowLimit = check.OverRowLimit };
         }
         var (stored, queued) = await StoreAsync(source, model, version, check, by, now, progress, ct);
         return new ImportReport(source.Name, check.Rows, stored, check.Duplicates.Count, queued, 0, []);
     }
 
-    private sealed record CheckResult(int Rows, ErrorList Errors, HashSet<string> Duplicates);
+    private sealed record CheckResult(int Rows, ErrorList Errors, HashSet<string> Duplicates, bool OverRowLimit);
 
     private async Task<CheckResult> CheckAsync(ImportSource source, ClaimSchema schema, IProgress<ImportProgress>? progress, CancellationToken ct)
     {
@@ -72,6 +72,7 @@ public sealed class ClaimIntake(
         var firstRowOf = new Dictionary<string, int>(StringComparer.Ordinal);
         var pending = new List<(int Row, Dictionary<string, string?> Values)>(o.BatchSize);
         var rows = 0;
+        var overLimit = false;
         await using var stream = source.Open();
         await foreach (var row in Read(source, stream, schema, ct))
         {
@@ -80,6 +81,7 @@ public sealed class ClaimIntake(
             if (rows > source.MaxRows)
             {
                 errors.Add(new RowError(rows, null, null, $"more than {source.MaxRows:N0} claims in one request; send at most {source.MaxRows:N0} at a time"));
+                overLimit = true;
                 break;
             }
             var values = row.Errors.Count > 0 ? null : ClaimRowRules.Check(schema, row, o.MaxFieldLength);
@@ -95,7 +97,7 @@ public sealed class ClaimIntake(
         if (rows == 0 && errors.Total == 0)
             errors.Add(new RowError(0, null, null, "the input holds no claims (only a header, or nothing)"));
         progress?.Report(new ImportProgress("Checking", 1, rows));
-        return new CheckResult(rows, errors, duplicates);
+        return new CheckResult(rows, errors, duplicates, overLimit);
     }
 
     private async Task CompareWithStoreAsync(ClaimSchema schema, List<(int Row, Dictionary<string, string?> Values)> pending,

@@ -27,6 +27,8 @@ public sealed record ImportReport(
     IReadOnlyList<RowError> Errors)
 {
     public bool Rejected => ErrorCount > 0;
+    /// <summary>Rejected because the input has more rows than the source allows.</summary>
+    public bool OverRowLimit { get; init; }
     public int ScoredOnly => Stored - Queued;
 
     public string Summary => Rejected

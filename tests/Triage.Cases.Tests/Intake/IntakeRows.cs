@@ -58,5 +58,16 @@ public static class IntakeRows
     public static string Json(IEnumerable<IReadOnlyDictionary<string, string?>> rows) =>
         System.Text.Json.JsonSerializer.Serialize(rows.Select(r => r.Where(kv => !string.IsNullOrEmpty(kv.Value)).ToDictionary()));
 
+    /// <summary>Sets one cell of a plain CSV (no quoted delimiters) by data row and column name.</summary>
+    public static string Edit(string csv, int row, string column, string value, char delimiter = ',')
+    {
+        var lines = csv.Split('\n');
+        var at = Array.IndexOf(lines[0].Split(delimiter), column);
+        var cells = lines[row].Split(delimiter);
+        cells[at] = value;
+        lines[row] = string.Join(delimiter, cells);
+        return string.Join('\n', lines);
+    }
+
     public static byte[] Utf8(string s) => Encoding.UTF8.GetBytes(s);
 }

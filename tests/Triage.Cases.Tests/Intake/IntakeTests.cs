@@ -46,7 +46,7 @@ public sealed class IntakeTests(IntakeFixture fixture) : IClassFixture<IntakeFix
         Assert.Equal(15, (await fixture.ImportCsvAsync(IntakeRows.Csv(rows))).Stored);
         var before = await fixture.FingerprintAsync();
         // The same numbers written differently (1200.5 vs 1200.50, YES vs yes) are the same claim.
-        var again = MalformedCorpus.Edit(IntakeRows.Csv(rows), 1, "claimed_amount", rows[0]["claimed_amount"] + "0");
+        var again = IntakeRows.Edit(IntakeRows.Csv(rows), 1, "claimed_amount", rows[0]["claimed_amount"] + "0");
         var report = await fixture.ImportCsvAsync(again.Replace(",yes,", ",YES,"));
 
         Assert.False(report.Rejected, string.Join("\n", report.Errors));

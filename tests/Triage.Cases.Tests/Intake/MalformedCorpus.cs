@@ -45,46 +45,46 @@ public static class MalformedCorpus
             ["invalid UTF-8 byte"] = new(Bytes(csv, "Intake Person 2", [0x49, 0xFF, 0x6E]), 2, "claimant_name", "not UTF-8"),
             ["Latin-1 accent"] = new(Bytes(csv, "Intake Person 3", [0x52, 0xE9, 0x6E, 0xE9, 0x65]), 3, "claimant_name", "not UTF-8"),
             ["UTF-16 text without BOM"] = new(Encoding.Unicode.GetBytes(csv), 0, null, "looks like UTF-16"),
-            ["huge field"] = new(U(Edit(csv, 2, "claimant_name", new string('z', 20_000))), 2, "claimant_name", "characters long"),
+            ["huge field"] = new(U(IntakeRows.Edit(csv, 2, "claimant_name", new string('z', 20_000))), 2, "claimant_name", "characters long"),
             ["too many rows"] = new(U(IntakeRows.Csv(IntakeRows.Many(6, Bad))), 6, null, "more than 5 claims", MaxRows: 5),
-            ["comma decimal in semicolon file"] = new(U(Edit(IntakeRows.Csv(IntakeRows.Many(2, Bad), ';'), 1, "claimed_amount", "1200,50", ';')), 1, "claimed_amount", "not a number", Delimiter: ';'),
+            ["comma decimal in semicolon file"] = new(U(IntakeRows.Edit(IntakeRows.Csv(IntakeRows.Many(2, Bad), ';'), 1, "claimed_amount", "1200,50", ';')), 1, "claimed_amount", "not a number", Delimiter: ';'),
             // Numbers
-            ["amount not a number"] = new(U(Edit(csv, 1, "claimed_amount", "abc")), 1, "claimed_amount", "not a number"),
-            ["negative amount"] = new(U(Edit(csv, 2, "claimed_amount", "-5")), 2, "claimed_amount", "below the smallest allowed value 0"),
-            ["amount with thousands separator"] = new(U(Edit(csv, 1, "claimed_amount", "\"1,200.50\"")), 1, "claimed_amount", "not a number"),
-            ["amount above range"] = new(U(Edit(csv, 3, "claimed_amount", "600000")), 3, "claimed_amount", "above the largest allowed value 500000"),
-            ["amount missing"] = new(U(Edit(csv, 1, "claimed_amount", "")), 1, "claimed_amount", "required"),
-            ["amount NaN"] = new(U(Edit(csv, 1, "claimed_amount", "NaN")), 1, "claimed_amount", "not a number"),
-            ["amount infinite"] = new(U(Edit(csv, 1, "claimed_amount", "Infinity")), 1, "claimed_amount", "not a number"),
-            ["amount with currency"] = new(U(Edit(csv, 2, "claimed_amount", "EUR 300")), 2, "claimed_amount", "not a number"),
-            ["loss hour 24"] = new(U(Edit(csv, 2, "loss_hour", "24")), 2, "loss_hour", "above the largest allowed value 23"),
-            ["negative prior claims"] = new(U(Edit(csv, 1, "prior_claims_3y", "-1")), 1, "prior_claims_3y", "below"),
-            ["policy limit too small"] = new(U(Edit(csv, 3, "policy_limit", "50")), 3, "policy_limit", "below the smallest allowed value 100"),
-            ["vehicle age text"] = new(U(Edit(csv, 1, "vehicle_age_years", "old")), 1, "vehicle_age_years", "not a number"),
+            ["amount not a number"] = new(U(IntakeRows.Edit(csv, 1, "claimed_amount", "abc")), 1, "claimed_amount", "not a number"),
+            ["negative amount"] = new(U(IntakeRows.Edit(csv, 2, "claimed_amount", "-5")), 2, "claimed_amount", "below the smallest allowed value 0"),
+            ["amount with thousands separator"] = new(U(IntakeRows.Edit(csv, 1, "claimed_amount", "\"1,200.50\"")), 1, "claimed_amount", "not a number"),
+            ["amount above range"] = new(U(IntakeRows.Edit(csv, 3, "claimed_amount", "600000")), 3, "claimed_amount", "above the largest allowed value 500000"),
+            ["amount missing"] = new(U(IntakeRows.Edit(csv, 1, "claimed_amount", "")), 1, "claimed_amount", "required"),
+            ["amount NaN"] = new(U(IntakeRows.Edit(csv, 1, "claimed_amount", "NaN")), 1, "claimed_amount", "not a number"),
+            ["amount infinite"] = new(U(IntakeRows.Edit(csv, 1, "claimed_amount", "Infinity")), 1, "claimed_amount", "not a number"),
+            ["amount with currency"] = new(U(IntakeRows.Edit(csv, 2, "claimed_amount", "EUR 300")), 2, "claimed_amount", "not a number"),
+            ["loss hour 24"] = new(U(IntakeRows.Edit(csv, 2, "loss_hour", "24")), 2, "loss_hour", "above the largest allowed value 23"),
+            ["negative prior claims"] = new(U(IntakeRows.Edit(csv, 1, "prior_claims_3y", "-1")), 1, "prior_claims_3y", "below"),
+            ["policy limit too small"] = new(U(IntakeRows.Edit(csv, 3, "policy_limit", "50")), 3, "policy_limit", "below the smallest allowed value 100"),
+            ["vehicle age text"] = new(U(IntakeRows.Edit(csv, 1, "vehicle_age_years", "old")), 1, "vehicle_age_years", "not a number"),
             // Dates
-            ["month 13"] = new(U(Edit(csv, 1, "loss_date", "2027-13-01")), 1, "loss_date", "yyyy-MM-dd"),
-            ["day-first date"] = new(U(Edit(csv, 2, "loss_date", "01/03/2027")), 2, "loss_date", "yyyy-MM-dd"),
-            ["report date missing"] = new(U(Edit(csv, 3, "report_date", "")), 3, "report_date", "required"),
-            ["30 February"] = new(U(Edit(csv, 1, "report_date", "2027-02-30")), 1, "report_date", "yyyy-MM-dd"),
-            ["policy start as a word"] = new(U(Edit(csv, 2, "policy_start_date", "tomorrow")), 2, "policy_start_date", "yyyy-MM-dd"),
-            ["loss after report"] = new(U(Edit(Edit(csv, 2, "loss_date", "2027-03-20"), 2, "report_date", "2027-03-12")), 2, "loss_date", "after the report date"),
-            ["policy starts after loss"] = new(U(Edit(csv, 1, "policy_start_date", "2027-03-25")), 1, "policy_start_date", "policy starts after the loss date"),
+            ["month 13"] = new(U(IntakeRows.Edit(csv, 1, "loss_date", "2027-13-01")), 1, "loss_date", "yyyy-MM-dd"),
+            ["day-first date"] = new(U(IntakeRows.Edit(csv, 2, "loss_date", "01/03/2027")), 2, "loss_date", "yyyy-MM-dd"),
+            ["report date missing"] = new(U(IntakeRows.Edit(csv, 3, "report_date", "")), 3, "report_date", "required"),
+            ["30 February"] = new(U(IntakeRows.Edit(csv, 1, "report_date", "2027-02-30")), 1, "report_date", "yyyy-MM-dd"),
+            ["policy start as a word"] = new(U(IntakeRows.Edit(csv, 2, "policy_start_date", "tomorrow")), 2, "policy_start_date", "yyyy-MM-dd"),
+            ["loss after report"] = new(U(IntakeRows.Edit(IntakeRows.Edit(csv, 2, "loss_date", "2027-03-20"), 2, "report_date", "2027-03-12")), 2, "loss_date", "after the report date"),
+            ["policy starts after loss"] = new(U(IntakeRows.Edit(csv, 1, "policy_start_date", "2027-03-25")), 1, "policy_start_date", "policy starts after the loss date"),
             // Categories and yes/no
-            ["unknown line"] = new(U(Edit(csv, 1, "line", "boat")), 1, "line", "not an allowed value"),
-            ["line in other case"] = new(U(Edit(csv, 2, "line", "Motor")), 2, "line", "not an allowed value"),
-            ["unknown loss cause"] = new(U(Edit(csv, 3, "loss_cause", "flood")), 3, "loss_cause", "not an allowed value"),
-            ["unknown branch"] = new(U(Edit(csv, 1, "branch_office", "Nowhere")), 1, "branch_office", "not an allowed value"),
-            ["unknown repairer"] = new(U(Edit(csv, 1, "repairer_code", "RP-99")), 1, "repairer_code", "not an allowed value"),
-            ["unknown age band"] = new(U(Edit(csv, 2, "claimant_age_band", "17-")), 2, "claimant_age_band", "not an allowed value"),
-            ["police report maybe"] = new(U(Edit(csv, 1, "police_report", "maybe")), 1, "police_report", "'yes' or 'no'"),
-            ["police report as 1"] = new(U(Edit(csv, 3, "police_report", "1")), 3, "police_report", "'yes' or 'no'"),
+            ["unknown line"] = new(U(IntakeRows.Edit(csv, 1, "line", "boat")), 1, "line", "not an allowed value"),
+            ["line in other case"] = new(U(IntakeRows.Edit(csv, 2, "line", "Motor")), 2, "line", "not an allowed value"),
+            ["unknown loss cause"] = new(U(IntakeRows.Edit(csv, 3, "loss_cause", "flood")), 3, "loss_cause", "not an allowed value"),
+            ["unknown branch"] = new(U(IntakeRows.Edit(csv, 1, "branch_office", "Nowhere")), 1, "branch_office", "not an allowed value"),
+            ["unknown repairer"] = new(U(IntakeRows.Edit(csv, 1, "repairer_code", "RP-99")), 1, "repairer_code", "not an allowed value"),
+            ["unknown age band"] = new(U(IntakeRows.Edit(csv, 2, "claimant_age_band", "17-")), 2, "claimant_age_band", "not an allowed value"),
+            ["police report maybe"] = new(U(IntakeRows.Edit(csv, 1, "police_report", "maybe")), 1, "police_report", "'yes' or 'no'"),
+            ["police report as 1"] = new(U(IntakeRows.Edit(csv, 3, "police_report", "1")), 3, "police_report", "'yes' or 'no'"),
             // Identity of the claim
-            ["claim number missing"] = new(U(Edit(csv, 2, "claim_number", "")), 2, "claim_number", "required"),
-            ["claim number too long"] = new(U(Edit(csv, 1, "claim_number", new string('C', 65))), 1, "claim_number", "at most 64"),
-            ["policy number missing"] = new(U(Edit(csv, 3, "policy_number", "")), 3, "policy_number", "required"),
-            ["duplicate claim number in file"] = new(U(Edit(csv, 3, "claim_number", "Bad-000001")), 3, "claim_number", "also on row 1"),
-            ["claim number stored with other content"] = new(U(Edit(csv, 2, "claim_number", "O-00001")), 2, "claim_number", "already stored with different content"),
-            ["error on row 250 of 250"] = new(U(Edit(IntakeRows.Csv(IntakeRows.Many(250, Bad)), 250, "line", "ship")), 250, "line", "not an allowed value"),
+            ["claim number missing"] = new(U(IntakeRows.Edit(csv, 2, "claim_number", "")), 2, "claim_number", "required"),
+            ["claim number too long"] = new(U(IntakeRows.Edit(csv, 1, "claim_number", new string('C', 65))), 1, "claim_number", "at most 64"),
+            ["policy number missing"] = new(U(IntakeRows.Edit(csv, 3, "policy_number", "")), 3, "policy_number", "required"),
+            ["duplicate claim number in file"] = new(U(IntakeRows.Edit(csv, 3, "claim_number", "Bad-000001")), 3, "claim_number", "also on row 1"),
+            ["claim number stored with other content"] = new(U(IntakeRows.Edit(csv, 2, "claim_number", "O-00001")), 2, "claim_number", "already stored with different content"),
+            ["error on row 250 of 250"] = new(U(IntakeRows.Edit(IntakeRows.Csv(IntakeRows.Many(250, Bad)), 250, "line", "ship")), 250, "line", "not an allowed value"),
             // JSON
             ["JSON object, not array"] = new(U("{\"claim_number\":\"X\"}"), 1, null, "not a valid JSON array", ImportFormat.Json),
             ["JSON cut short"] = new(U(IntakeRows.Json(IntakeRows.Many(2, Bad))[..200]), 1, null, "not a valid JSON array", ImportFormat.Json),
@@ -99,17 +99,6 @@ public static class MalformedCorpus
     }
 
     private static byte[] U(string s) => Encoding.UTF8.GetBytes(s);
-
-    /// <summary>Sets one cell of a plain CSV (no quoted delimiters) by data row and column name.</summary>
-    public static string Edit(string csv, int row, string column, string value, char delimiter = ',')
-    {
-        var lines = csv.Split('\n');
-        var at = Array.IndexOf(lines[0].Split(delimiter), column);
-        var cells = lines[row].Split(delimiter);
-        cells[at] = value;
-        lines[row] = string.Join(delimiter, cells);
-        return string.Join('\n', lines);
-    }
 
     private static string DropLastField(string csv, int row)
     {
