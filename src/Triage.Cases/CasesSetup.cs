@@ -41,7 +41,9 @@ public static class CasesSetup
             s.AddDbContext<TriageDbContext, PostgresTriageDbContext>((sp, o) =>
                 o.UseNpgsql(sp.GetRequiredService<IOptions<StorageOptions>>().Value.ConnectionString));
         else
-            s.AddDbContext<TriageDbContext, SqliteTriageDbContext>((sp, o) => o.UseSqlite(SqliteConnection(sp)));
+            // One statement per command: Microsoft.Data.Sqlite re-prepares every statement of a multi-statement
+            // batch, and bench `intake` stored claims twice as fast unbatched (measured here, 2 cores).
+            s.AddDbContext<TriageDbContext, SqliteTriageDbContext>((sp, o) => o.UseSqlite(SqliteConnection(sp), x => x.MaxBatchSize(1)));
 
         s.AddIdentityCore<TriageUser>(o =>
             {
