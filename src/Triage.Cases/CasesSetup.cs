@@ -6,11 +6,13 @@ using Microsoft.Extensions.DependencyInjection.Extensions;
 using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Options;
 using Triage.Cases.Accounts;
+using Triage.Cases.ApiKeys;
 using Triage.Cases.CaseFile;
 using Triage.Cases.CaseWork;
 using Triage.Cases.Domain;
 using Triage.Cases.FirstStart;
 using Triage.Cases.Hosting;
+using Triage.Cases.Intake;
 using Triage.Cases.Options;
 using Triage.Cases.Queue;
 using Triage.Cases.Store;
@@ -28,6 +30,7 @@ public static class CasesSetup
         s.AddOptions<StorageOptions>().BindConfiguration(StorageOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddOptions<DemoOptions>().BindConfiguration(DemoOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddOptions<QueueOptions>().BindConfiguration(QueueOptions.Section).ValidateDataAnnotations().ValidateOnStart();
+        s.AddOptions<IntakeOptions>().BindConfiguration(IntakeOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddSingleton<IValidateOptions<StorageOptions>, StorageOptionsValidator>();
         s.AddSingleton<IValidateOptions<DemoOptions>, DemoOptionsValidator>();
         s.AddSingleton<TriagePaths>();
@@ -39,7 +42,9 @@ public static class CasesSetup
             s.AddDbContext<TriageDbContext, PostgresTriageDbContext>((sp, o) =>
                 o.UseNpgsql(sp.GetRequiredService<IOptions<StorageOptions>>().Value.ConnectionString));
         else
-            s.AddDbContext<TriageDbContext, SqliteTriageDbContext>((sp, o) => o.UseSqlite(SqliteConnection(sp)));
+            // One statement per command: Microsoft.Data.Sqlite re-prepares every statement of a multi-statement
+            // batch, and bench `intake` stored claims twice as fast unbatched (measured here, 2 cores).
+            s.AddDbContext<TriageDbContext, SqliteTriageDbContext>((sp, o) => o.UseSqlite(SqliteConnection(sp), x => x.MaxBatchSize(1)));
 
         s.AddIdentityCore<TriageUser>(o =>
             {
@@ -59,6 +64,9 @@ public static class CasesSetup
         s.AddScoped<CaseWorkService>();
         s.AddSingleton<CaseEvents>();
         s.AddScoped<TeamDirectory>();
+        s.AddSingleton<ServingModels>();
+        s.AddScoped<ClaimIntake>();
+        s.AddScoped<ApiKeyService>();
         return b;
     }
 

@@ -5,5 +5,7 @@ var root = new RootCommand("Triage: claims fraud triage from the command line.")
 root.Subcommands.Add(Triage.Cli.Demo.DemoCommand.Create());
 root.Subcommands.Add(Triage.Cli.Explain.ExplainCommand.Create());
 root.Subcommands.Add(Triage.Cli.Users.UsersCommand.Create());
+root.Subcommands.Add(Triage.Cli.Import.ImportCommand.Create());
+root.Subcommands.Add(Triage.Cli.ApiKeys.ApiKeysCommand.Create());
 
 return await root.Parse(args).InvokeAsync();

@@ -5,6 +5,7 @@ using Triage.Cases.Domain;
 using Triage.Web.Account;
 using Triage.Web.Components;
 using Triage.Web.Reports;
+using Triage.Web.Intake;
 
 namespace Triage.Web;
 
@@ -40,6 +41,7 @@ public static class WebSetup
         app.MapStaticAssets().AllowAnonymous();
         app.MapAccountEndpoints();
         app.MapReportEndpoints();
+        app.MapIntakeEndpoints();
         app.MapRazorComponents<App>().AddInteractiveServerRenderMode();
         return app;
     }

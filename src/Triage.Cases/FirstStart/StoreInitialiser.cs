@@ -108,6 +108,8 @@ public sealed class StoreInitialiser(
             await db.SaveChangesAsync(ct);
         }
         db.ChangeTracker.AutoDetectChangesEnabled = true;
+        // Every open claim keeps the score it arrived with, as claims taken in later do.
+        db.ClaimScores.AddRange(scored.Select(s => ClaimScore.Record(s.Claim, s.Explanation, model.Metadata.Version, s.Explanation.Probability >= threshold, now)));
         db.AuditEvents.Add(new AuditEvent(Actor.System.UserName, "cases.opened",
             $"{cases.Count} of {scored.Count} open claims scored at or above {threshold:0.00}", now));
         await db.SaveChangesAsync(ct);

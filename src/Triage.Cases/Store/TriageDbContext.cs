@@ -1,6 +1,8 @@
 using Microsoft.AspNetCore.Identity.EntityFrameworkCore;
 using Microsoft.EntityFrameworkCore;
+using Triage.Cases.ApiKeys;
 using Triage.Cases.Domain;
+using Triage.Cases.Intake;
 
 namespace Triage.Cases.Store;
 
@@ -18,6 +20,8 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
     public DbSet<AuditEvent> AuditEvents => Set<AuditEvent>();
     public DbSet<ModelVersion> ModelVersions => Set<ModelVersion>();
     public DbSet<PlaybookRule> PlaybookRules => Set<PlaybookRule>();
+    public DbSet<ClaimScore> ClaimScores => Set<ClaimScore>();
+    public DbSet<ApiKey> ApiKeys => Set<ApiKey>();
 
     // A bare boolean column reads as "is true" in both SQLite and PostgreSQL. SQLite uses a partial
     // index only when the query repeats the index's WHERE term, and EF writes `WHERE "c"."IsOpen"`.
@@ -26,6 +30,8 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
     protected override void OnModelCreating(ModelBuilder b)
     {
         base.OnModelCreating(b);
+        b.ApplyConfiguration(new ClaimScoreConfiguration());
+        b.ApplyConfiguration(new ApiKeyConfiguration());
 
         b.Entity<TriageUser>(u =>
         {

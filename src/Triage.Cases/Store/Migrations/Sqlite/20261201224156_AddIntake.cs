@@ -1,0 +1,84 @@
+﻿using System;
+using Microsoft.EntityFrameworkCore.Migrations;
+
+#nullable disable
+
+namespace Triage.Cases.Store.Migrations.Sqlite
+{
+    /// <inheritdoc />
+    public partial class AddIntake : Migration
+    {
+        /// <inheritdoc />
+        protected override void Up(MigrationBuilder migrationBuilder)
+        {
+            migrationBuilder.CreateTable(
+                name: "ApiKeys",
+                columns: table => new
+                {
+                    Id = table.Column<int>(type: "INTEGER", nullable: false)
+                        .Annotation("Sqlite:Autoincrement", true),
+                    Name = table.Column<string>(type: "TEXT", maxLength: 80, nullable: false),
+                    KeyPrefix = table.Column<string>(type: "TEXT", maxLength: 16, nullable: false),
+                    SecretHash = table.Column<string>(type: "TEXT", maxLength: 64, nullable: false),
+                    Scope = table.Column<string>(type: "TEXT", maxLength: 32, nullable: false),
+                    CreatedBy = table.Column<string>(type: "TEXT", maxLength: 256, nullable: false),
+                    CreatedAt = table.Column<DateTime>(type: "TEXT", nullable: false),
+                    RevokedBy = table.Column<string>(type: "TEXT", maxLength: 256, nullable: true),
+                    RevokedAt = table.Column<DateTime>(type: "TEXT", nullable: true),
+                    LastUsedAt = table.Column<DateTime>(type: "TEXT", nullable: true)
+                },
+                constraints: table =>
+                {
+                    table.PrimaryKey("PK_ApiKeys", x => x.Id);
+                });
+
+            migrationBuilder.CreateTable(
+                name: "ClaimScores",
+                columns: table => new
+                {
+                    Id = table.Column<long>(type: "INTEGER", nullable: false)
+                        .Annotation("Sqlite:Autoincrement", true),
+                    ClaimId = table.Column<int>(type: "INTEGER", nullable: false),
+                    ModelVersion = table.Column<string>(type: "TEXT", maxLength: 64, nullable: false),
+                    Probability = table.Column<double>(type: "REAL", nullable: false),
+                    RiskScore = table.Column<int>(type: "INTEGER", nullable: false),
+                    LogOdds = table.Column<double>(type: "REAL", nullable: false),
+                    BaseLogOdds = table.Column<double>(type: "REAL", nullable: false),
+                    Queued = table.Column<bool>(type: "INTEGER", nullable: false),
+                    ScoredAt = table.Column<DateTime>(type: "TEXT", nullable: false),
+                    DriversJson = table.Column<string>(type: "TEXT", nullable: false)
+                },
+                constraints: table =>
+                {
+                    table.PrimaryKey("PK_ClaimScores", x => x.Id);
+                    table.ForeignKey(
+                        name: "FK_ClaimScores_Claims_ClaimId",
+                        column: x => x.ClaimId,
+                        principalTable: "Claims",
+                        principalColumn: "Id",
+                        onDelete: ReferentialAction.Cascade);
+                });
+
+            migrationBuilder.CreateIndex(
+                name: "IX_ApiKeys_SecretHash",
+                table: "ApiKeys",
+                column: "SecretHash",
+                unique: true);
+
+            migrationBuilder.CreateIndex(
+                name: "IX_ClaimScores_ClaimId",
+                table: "ClaimScores",
+                column: "ClaimId");
+        }
+
+        /// <inheritdoc />
+        protected override void Down(MigrationBuilder migrationBuilder)
+        {
+            migrationBuilder.DropTable(
+                name: "ApiKeys");
+
+            migrationBuilder.DropTable(
+                name: "ClaimScores");
+        }
+    }
+}
