@@ -11,6 +11,7 @@ using Triage.Scoring.Training;
 
 namespace Triage.Cli.Tests.Explain;
 
+[Collection(Triage.Cli.Tests.Support.ConsoleCollection.Name)]
 public sealed class ExplainCommandTests : IDisposable
 {
     private readonly string _dir = Directory.CreateTempSubdirectory("triage-explain-").FullName;

@@ -8,6 +8,7 @@ using Triage.Cli.Import;
 namespace Triage.Cli.Tests.Import;
 
 /// <summary>The commands run in-process over a temp store seeded with the tiny scenario (a 20-tree model).</summary>
+[Collection(Triage.Cli.Tests.Support.ConsoleCollection.Name)]
 public sealed class ImportCommandTests : IDisposable
 {
     private readonly string _dir = Directory.CreateTempSubdirectory("triage-import-").FullName;

@@ -6,6 +6,7 @@ using Triage.Cli.Users;
 namespace Triage.Cli.Tests.Users;
 
 /// <summary>`triage users` against a fresh SQLite store in a temp folder, with the demo off.</summary>
+[Collection(Triage.Cli.Tests.Support.ConsoleCollection.Name)]
 public sealed class UsersCommandTests : IDisposable
 {
     private readonly string _folder = Path.Combine(Path.GetTempPath(), "triage-cli-users", Guid.NewGuid().ToString("N"));
