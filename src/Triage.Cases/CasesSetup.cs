@@ -14,6 +14,7 @@ using Triage.Cases.Hosting;
 using Triage.Cases.Options;
 using Triage.Cases.Queue;
 using Triage.Cases.Store;
+using Triage.Cases.TeamLead;
 using Triage.Scoring;
 
 namespace Triage.Cases;
@@ -57,6 +58,7 @@ public static class CasesSetup
         s.AddScoped<CaseWorkService>();
         s.AddSingleton<CaseEvents>();
         s.AddScoped<TeamDirectory>();
+        s.AddScoped<ReassignService>();
         return b;
     }
 
