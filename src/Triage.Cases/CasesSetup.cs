@@ -16,6 +16,7 @@ using Triage.Cases.Intake;
 using Triage.Cases.Options;
 using Triage.Cases.Queue;
 using Triage.Cases.Store;
+using Triage.Cases.TeamLead;
 using Triage.Scoring;
 
 namespace Triage.Cases;
@@ -67,6 +68,7 @@ public static class CasesSetup
         s.AddSingleton<ServingModels>();
         s.AddScoped<ClaimIntake>();
         s.AddScoped<ApiKeyService>();
+        s.AddScoped<ReassignService>();
         return b;
     }
 
