@@ -11,6 +11,7 @@ using Triage.Cases.CaseWork;
 using Triage.Cases.Domain;
 using Triage.Cases.FirstStart;
 using Triage.Cases.Hosting;
+using Triage.Cases.Insights;
 using Triage.Cases.Options;
 using Triage.Cases.Queue;
 using Triage.Cases.Store;
@@ -57,6 +58,8 @@ public static class CasesSetup
         s.AddScoped<CaseWorkService>();
         s.AddSingleton<CaseEvents>();
         s.AddScoped<TeamDirectory>();
+        s.AddScoped<InsightsService>();
+        s.AddScoped<HistoricCases>();
         return b;
     }
 
