@@ -4,6 +4,7 @@ using MudBlazor.Services;
 using Triage.Cases.Domain;
 using Triage.Web.Account;
 using Triage.Web.Components;
+using Triage.Web.Insights;
 using Triage.Web.Reports;
 
 namespace Triage.Web;
@@ -40,6 +41,7 @@ public static class WebSetup
         app.MapStaticAssets().AllowAnonymous();
         app.MapAccountEndpoints();
         app.MapReportEndpoints();
+        app.MapInsightsEndpoints();
         app.MapRazorComponents<App>().AddInteractiveServerRenderMode();
         return app;
     }
