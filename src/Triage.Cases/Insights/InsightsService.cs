@@ -71,7 +71,8 @@ public sealed class InsightsService(TriageDbContext db, TimeProvider clock)
     {
         actor.Require("read calibration", Readers);
         var rows = await Closed(filter).Where(x => x.Outcome != VerdictOutcome.Inconclusive)
-            .GroupBy(x => x.Probability >= 1 ? Bands - 1 : (int)(x.Probability * Bands))
+            // Floor, not a cast: PostgreSQL rounds when it casts a double to an integer.
+            .GroupBy(x => x.Probability >= 1 ? Bands - 1 : (int)Math.Floor(x.Probability * Bands))
             .Select(g => new
             {
                 Band = g.Key,
