@@ -7,9 +7,9 @@ using Triage.Scoring.Explaining;
 namespace Triage.Cases.Tests.Insights;
 
 /// <summary>A fresh store plus builders for cases worked to a verdict, with drivers chosen by the test.</summary>
-public sealed class InsightCases : IAsyncDisposable
+public sealed class InsightCases(string provider) : IAsyncDisposable
 {
-    public TestStore Store { get; } = TestStore.Create();
+    public TestStore Store { get; } = TestStore.Create(provider);
     public TriageUser Ines { get; } = Build.User("ines");
     public TriageUser Tomas { get; } = Build.User("tomas");
     public static readonly Actor Manager = new("id-hollis", "hollis", new HashSet<string> { Roles.Manager });
