@@ -3,49 +3,35 @@ using CsvHelper;
 
 namespace Triage.Cases.Insights;
 
-/// <summary>Writes each insight table as CSV (invariant culture, rates as fractions, one header row).</summary>
+/// <summary>Writes each insight table as CSV: one header row (also for an empty table), invariant numbers, rates as fractions.</summary>
 public static class InsightsCsv
 {
     public static void HitRates(TextWriter to, IEnumerable<HitRateRow> rows, string groupColumn) =>
-        Write(to, rows.Select(r => new Dictionary<string, object?>
-        {
-            [groupColumn] = r.Label, ["key"] = r.Key, ["confirmed"] = r.Confirmed, ["not_fraud"] = r.NotFraud,
-            ["inconclusive"] = r.Inconclusive, ["decided"] = r.Decided, ["hit_rate"] = r.Rate,
-            ["wilson95_low"] = r.Interval.Low, ["wilson95_high"] = r.Interval.High, ["too_few"] = r.TooFew,
-        }));
+        Write(to, [groupColumn, "key", "confirmed", "not_fraud", "inconclusive", "decided", "hit_rate", "wilson95_low", "wilson95_high", "too_few"],
+            rows.Select(r => new object?[] { r.Label, r.Key, r.Confirmed, r.NotFraud, r.Inconclusive, r.Decided, r.Rate, r.Interval.Low, r.Interval.High, r.TooFew }));
 
     public static void Months(TextWriter to, IEnumerable<MonthRow> rows) =>
-        Write(to, rows.Select(r => new Dictionary<string, object?>
-        {
-            ["month"] = r.Label, ["confirmed"] = r.Counts.Confirmed, ["not_fraud"] = r.Counts.NotFraud,
-            ["inconclusive"] = r.Counts.Inconclusive, ["hit_rate"] = r.Counts.Rate,
-            ["wilson95_low"] = r.Counts.Interval.Low, ["wilson95_high"] = r.Counts.Interval.High, ["amount_saved"] = r.AmountSaved,
-        }));
+        Write(to, ["month", "confirmed", "not_fraud", "inconclusive", "hit_rate", "wilson95_low", "wilson95_high", "amount_saved"],
+            rows.Select(r => new object?[]
+            {
+                r.Label, r.Counts.Confirmed, r.Counts.NotFraud, r.Counts.Inconclusive, r.Counts.Rate, r.Counts.Interval.Low, r.Counts.Interval.High, r.AmountSaved,
+            }));
 
     public static void Calibration(TextWriter to, IEnumerable<CalibrationRow> rows) =>
-        Write(to, rows.Select(r => new Dictionary<string, object?>
-        {
-            ["band_low"] = r.BandLow, ["band_high"] = r.BandHigh, ["decided"] = r.Decided, ["confirmed"] = r.Confirmed,
-            ["mean_predicted"] = r.MeanPredicted, ["observed_rate"] = r.ObservedRate,
-            ["wilson95_low"] = r.Interval.Low, ["wilson95_high"] = r.Interval.High,
-        }));
+        Write(to, ["band_low", "band_high", "decided", "confirmed", "mean_predicted", "observed_rate", "wilson95_low", "wilson95_high"],
+            rows.Select(r => new object?[] { r.BandLow, r.BandHigh, r.Decided, r.Confirmed, r.MeanPredicted, r.ObservedRate, r.Interval.Low, r.Interval.High }));
 
     public static void QueueAge(TextWriter to, IEnumerable<QueueAgeRow> rows) =>
-        Write(to, rows.Select(r => new Dictionary<string, object?> { ["age"] = r.Bucket, ["open"] = r.Open, ["overdue"] = r.Overdue }));
+        Write(to, ["age", "open", "overdue"], rows.Select(r => new object?[] { r.Bucket, r.Open, r.Overdue }));
 
-    private static void Write(TextWriter to, IEnumerable<Dictionary<string, object?>> rows)
+    private static void Write(TextWriter to, string[] header, IEnumerable<object?[]> rows)
     {
         using var csv = CsvWriter.Create(to, CsvWriterOptions.Default, true);
-        var first = true;
+        foreach (var name in header) csv.WriteField(name);
+        csv.EndRecord();
         foreach (var row in rows)
         {
-            if (first)
-            {
-                foreach (var name in row.Keys) csv.WriteField(name);
-                csv.EndRecord();
-                first = false;
-            }
-            foreach (var value in row.Values) csv.WriteField(Text(value));
+            foreach (var value in row) csv.WriteField(Text(value));
             csv.EndRecord();
         }
         csv.Flush();

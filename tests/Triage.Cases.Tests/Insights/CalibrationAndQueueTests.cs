@@ -67,5 +67,9 @@ public sealed class CalibrationAndQueueTests
         Assert.Equal("band_low,band_high,decided,confirmed,mean_predicted,observed_rate,wilson95_low,wilson95_high", lines[0]);
         Assert.StartsWith("0.3,0.4,2,1,0.335,0.5,", lines[1]);
         Assert.Equal(3, lines.Length);
+
+        using var empty = new StringWriter();
+        InsightsCsv.HitRates(empty, [], "driver");
+        Assert.StartsWith("driver,key,confirmed,", empty.ToString()); // an empty table still says what its columns are
     }
 }
