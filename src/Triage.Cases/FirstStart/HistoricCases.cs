@@ -15,7 +15,8 @@ namespace Triage.Cases.FirstStart;
 /// (which the first model did not train on) are scored, and those at or above the queue threshold become
 /// cases worked through the normal rules and closed with the claim's outcome on its closed date.
 /// </summary>
-public sealed class HistoricCases(TriageDbContext db, IOptions<ScoringOptions> scoring, IOptions<QueueOptions> queue, ILogger<HistoricCases> log)
+public sealed class HistoricCases(TriageDbContext db, IOptions<ScoringOptions> scoring, IOptions<QueueOptions> queue,
+    TimeProvider clock, ILogger<HistoricCases> log)
 {
     /// <summary>Share of verdicts turned inconclusive (seeded), so that path shows up in the figures.</summary>
     private const double InconclusiveShare = 0.08;
@@ -66,7 +67,7 @@ public sealed class HistoricCases(TriageDbContext db, IOptions<ScoringOptions> s
         }
         db.ChangeTracker.AutoDetectChangesEnabled = true;
         db.AuditEvents.Add(new AuditEvent(Actor.System.UserName, "cases.history",
-            $"{cases.Count} closed cases from {holdout.Count} holdout history claims", DateTime.UtcNow));
+            $"{cases.Count} closed cases from {holdout.Count} holdout history claims", clock.GetUtcNow().UtcDateTime));
         log.LogInformation("Created {Cases} closed demo cases from {Holdout} holdout history claims", cases.Count, holdout.Count);
     }
 }
