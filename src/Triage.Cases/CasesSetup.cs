@@ -13,6 +13,7 @@ using Triage.Cases.Domain;
 using Triage.Cases.FirstStart;
 using Triage.Cases.Hosting;
 using Triage.Cases.Intake;
+using Triage.Cases.Insights;
 using Triage.Cases.Options;
 using Triage.Cases.Queue;
 using Triage.Cases.Store;
@@ -69,6 +70,8 @@ public static class CasesSetup
         s.AddScoped<ClaimIntake>();
         s.AddScoped<ApiKeyService>();
         s.AddScoped<ReassignService>();
+        s.AddScoped<InsightsService>();
+        s.AddScoped<HistoricCases>();
         return b;
     }
 

@@ -4,6 +4,7 @@ using MudBlazor.Services;
 using Triage.Cases.Domain;
 using Triage.Web.Account;
 using Triage.Web.Components;
+using Triage.Web.Insights;
 using Triage.Web.Reports;
 using Triage.Web.Intake;
 
@@ -42,6 +43,7 @@ public static class WebSetup
         app.MapAccountEndpoints();
         app.MapReportEndpoints();
         app.MapIntakeEndpoints();
+        app.MapInsightsEndpoints();
         app.MapRazorComponents<App>().AddInteractiveServerRenderMode();
         return app;
     }

@@ -49,7 +49,8 @@ public sealed class FirstStartTests
         // Cases are exactly the open claims the model puts at or above the threshold, with drivers as explained.
         var open = await db.Claims.Where(c => c.State == ClaimState.Open).ToListAsync();
         var expected = open.Where(c => model.Explain(c.FieldValues()).Probability >= 0.3).Select(c => c.ClaimNumber).Order().ToList();
-        var cases = await db.Cases.Include(c => c.Drivers).Include(c => c.Checks).Include(c => c.Claim).ToListAsync();
+        // Closed demo-history cases (HistoricCases) are left out here; HistoricCasesTests checks them.
+        var cases = await db.Cases.Where(c => c.IsOpen).Include(c => c.Drivers).Include(c => c.Checks).Include(c => c.Claim).ToListAsync();
         Assert.NotEmpty(cases);
         Assert.Equal(expected, cases.Select(c => c.ClaimNumber).Order());
         foreach (var c in cases)
@@ -77,11 +78,12 @@ public sealed class FirstStartTests
         Assert.All(inesCases, c => Assert.Contains(c.Line, new[] { "motor", "home" }));
         Assert.True(await db.AuditEvents.AnyAsync(a => a.What == "model.promoted"));
 
+        var allCases = await db.Cases.CountAsync();
         // A second start changes nothing.
         await store.Host.Services.InitialiseStoreAsync();
         await using var after = store.NewContext();
         Assert.Equal(680, await after.Claims.CountAsync());
-        Assert.Equal(cases.Count, await after.Cases.CountAsync());
+        Assert.Equal(allCases, await after.Cases.CountAsync());
         Assert.Equal(1, await after.ModelVersions.CountAsync());
     }
 

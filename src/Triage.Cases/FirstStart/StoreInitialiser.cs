@@ -27,6 +27,7 @@ public sealed class StoreInitialiser(
     TriagePaths paths,
     IOptions<DemoOptions> demo,
     IOptions<QueueOptions> queue,
+    HistoricCases historic,
     TimeProvider clock,
     ILogger<StoreInitialiser> log)
 {
@@ -115,6 +116,7 @@ public sealed class StoreInitialiser(
         await db.SaveChangesAsync(ct);
         log.LogInformation("Scored {Open} open claims; {Cases} at or above {Threshold:0.00} opened as cases ({Ms} ms)",
             scored.Count, cases.Count, threshold, watch.ElapsedMilliseconds);
+        await historic.CreateAsync(schema, history, model, team, playbook, ct);
         db.ChangeTracker.Clear();
     }
 
