@@ -1,4 +1,5 @@
 using Microsoft.EntityFrameworkCore;
+using Triage.Cases.CaseWork;
 using Triage.Cases.Domain;
 using Triage.Cases.Store;
 
@@ -11,7 +12,7 @@ public sealed record TakenCase(int CaseId, string ClaimNumber, int RiskScore);
 /// token makes the save a conditional UPDATE, so when two people pick the same case at once only one save
 /// lands; the other sees the case as stale and picks again.
 /// </summary>
-public sealed class TakeNextService(TriageDbContext db, TimeProvider clock)
+public sealed class TakeNextService(TriageDbContext db, TimeProvider clock, CaseEvents events)
 {
     /// <summary>Enough for every contender in a burst to lose several races and still get a case.</summary>
     public const int MaxAttempts = 50;
@@ -37,6 +38,7 @@ public sealed class TakeNextService(TriageDbContext db, TimeProvider clock)
             try
             {
                 await db.SaveChangesAsync(ct);
+                events.Publish(next.Id, "case.assigned");
                 return new TakenCase(next.Id, next.ClaimNumber, next.RiskScore);
             }
             catch (StaleCaseException) when (attempt < MaxAttempts)

@@ -1,4 +1,5 @@
 using Microsoft.EntityFrameworkCore;
+using Triage.Cases.CaseWork;
 using Triage.Cases.Domain;
 using Triage.Cases.Queue;
 using Triage.Cases.Tests.Support;
@@ -21,10 +22,24 @@ public sealed class QueueTakeNextTests
         return store;
     }
 
-    private static async Task<TakenCase?> Take(TestStore store, Actor actor)
+    private static async Task<TakenCase?> Take(TestStore store, Actor actor, CaseEvents? events = null)
     {
         await using var db = store.NewContext();
-        return await new TakeNextService(db, new FixedClock(TestStore.Today)).TakeNextAsync(actor);
+        return await new TakeNextService(db, new FixedClock(TestStore.Today), events ?? new CaseEvents()).TakeNextAsync(actor);
+    }
+
+    [Fact]
+    public async Task Taking_a_case_tells_open_pages_it_changed()
+    {
+        var tomas = Build.User("tomas", "travel");
+        await using var store = await StoreWith("Sqlite", [tomas], 6);
+        var events = new CaseEvents();
+        var seen = new List<CaseChanged>();
+        using var _ = events.Subscribe(seen.Add);
+
+        var taken = await Take(store, Investigator(tomas), events);
+
+        Assert.Equal(new CaseChanged(taken!.CaseId, "case.assigned"), Assert.Single(seen));
     }
 
     [Fact]
