@@ -1,5 +1,5 @@
 using System.Diagnostics;
-using Triage.Bench.LightGbmNative;
+using Triage.Testing.LightGbm;
 using Triage.Scoring.Explaining;
 using Triage.Scoring.Trees;
 

@@ -1,3 +1,4 @@
+using Triage.Testing.LightGbm;
 using Triage.Scoring.Explaining;
 using Triage.Scoring.Tests.Trees;
 using Triage.Scoring.Trees;
@@ -27,13 +28,13 @@ public class LightGbmContributionTests
         var (trainX, labels) = ClaimLikeData.Generate(3000, Columns, seed: 1);
         // NaN in every column at predict time also exercises splits trained without missing values.
         var (testX, _) = ClaimLikeData.Generate(2000, Columns, seed: 2, extraNaN: 0.05);
-        using var native = LightGbmNative.Train(trainX, labels, Columns, DatasetParameters + datasetExtra, Booster + boosterExtra, iterations: 50);
+        using var native = LightGbmBooster.Train(trainX, labels, Columns, DatasetParameters + datasetExtra, Booster + boosterExtra, iterations: 50);
 
         var model = LightGbmModelText.Parse(native.ModelText());
         var explainer = new TreeShapExplainer(model.Ensemble);
-        var raw = native.Predict(testX, Columns, LightGbmNative.PredictRaw);
-        var probability = native.Predict(testX, Columns, LightGbmNative.PredictNormal);
-        var contributions = native.Predict(testX, Columns, LightGbmNative.PredictContrib);
+        var raw = native.Predict(testX, Columns, LightGbmBooster.PredictRaw);
+        var probability = native.Predict(testX, Columns, LightGbmBooster.PredictNormal);
+        var contributions = native.Predict(testX, Columns, LightGbmBooster.PredictContrib);
 
         Assert.Equal(50, model.Ensemble.Trees.Count);
         Assert.StartsWith("binary", model.Objective);
@@ -57,8 +58,8 @@ public class LightGbmContributionTests
     {
         // Guards the comparison above: LightGBM must really have written NaN- and Zero-missing splits.
         var (trainX, labels) = ClaimLikeData.Generate(3000, Columns, seed: 1);
-        using var nanModel = LightGbmNative.Train(trainX, labels, Columns, DatasetParameters, Booster, iterations: 50);
-        using var zeroModel = LightGbmNative.Train(trainX, labels, Columns, DatasetParameters + " zero_as_missing=true", Booster, iterations: 50);
+        using var nanModel = LightGbmBooster.Train(trainX, labels, Columns, DatasetParameters, Booster, iterations: 50);
+        using var zeroModel = LightGbmBooster.Train(trainX, labels, Columns, DatasetParameters + " zero_as_missing=true", Booster, iterations: 50);
         var kinds = new[] { nanModel, zeroModel }
             .SelectMany(m => LightGbmModelText.Parse(m.ModelText()).Ensemble.Trees)
             .SelectMany(t => t.Missing).Distinct().ToHashSet();

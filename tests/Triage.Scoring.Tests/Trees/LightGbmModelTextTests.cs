@@ -1,3 +1,4 @@
+using Triage.Testing.LightGbm;
 using System.Text.RegularExpressions;
 using Triage.Scoring.Trees;
 
@@ -19,8 +20,8 @@ public class LightGbmModelTextTests
         Assert.All(model.Ensemble.Trees, t => Assert.Equal(0, t.InternalCount));
 
         var (x, labels) = ClaimLikeData.Generate(2000, Columns, seed: 9);
-        using var native = LightGbmNative.Train(x, labels, Columns, "verbose=-1", "objective=binary min_data_in_leaf=5000 verbose=-1 num_threads=1", 2);
-        var raw = native.Predict(x[..(5 * Columns)], Columns, LightGbmNative.PredictRaw);
+        using var native = LightGbmBooster.Train(x, labels, Columns, "verbose=-1", "objective=binary min_data_in_leaf=5000 verbose=-1 num_threads=1", 2);
+        var raw = native.Predict(x[..(5 * Columns)], Columns, LightGbmBooster.PredictRaw);
         for (var r = 0; r < raw.Length; r++) Assert.Equal(raw[r], model.Ensemble.Predict(x.AsSpan(r * Columns, Columns)), 1e-12); // LightGBM raw score
     }
 
@@ -100,7 +101,7 @@ public class LightGbmModelTextTests
     private static string TrainText(string booster, int iterations)
     {
         var (x, labels) = ClaimLikeData.Generate(2000, Columns, seed: 9);
-        using var native = LightGbmNative.Train(x, labels, Columns, "verbose=-1", booster, iterations);
+        using var native = LightGbmBooster.Train(x, labels, Columns, "verbose=-1", booster, iterations);
         return native.ModelText();
     }
 }

@@ -1,23 +1,23 @@
 using System.Runtime.InteropServices;
 using System.Text;
 
-namespace Triage.Scoring.Tests.Trees;
+namespace Triage.Testing.LightGbm;
 
 /// <summary>
 /// LightGBM's C API (c_api.h of LightGBM 4.6.0, from the <c>LightGBM</c> NuGet package's
 /// lib_lightgbm.so), used as the external reference for predictions and TreeSHAP contributions.
 /// </summary>
-internal sealed unsafe partial class LightGbmNative : IDisposable
+internal sealed unsafe partial class LightGbmBooster : IDisposable
 {
     public const int PredictNormal = 0, PredictRaw = 1, PredictContrib = 3;
     private const string Lib = "lib_lightgbm";
     private const int Float32 = 0, Float64 = 1;
     private IntPtr _booster;
 
-    private LightGbmNative(IntPtr booster) => _booster = booster;
+    private LightGbmBooster(IntPtr booster) => _booster = booster;
 
     /// <summary>Trains on row-major <paramref name="x"/> (NaN = missing) with 0/1 labels.</summary>
-    public static LightGbmNative Train(double[] x, float[] labels, int columns, string datasetParameters, string boosterParameters, int iterations)
+    public static LightGbmBooster Train(double[] x, float[] labels, int columns, string datasetParameters, string boosterParameters, int iterations)
     {
         var rows = labels.Length;
         IntPtr dataset;
@@ -26,7 +26,7 @@ internal sealed unsafe partial class LightGbmNative : IDisposable
         {
             fixed (float* label = labels) Check(LGBM_DatasetSetField(dataset, "label", label, rows, Float32));
             Check(LGBM_BoosterCreate(dataset, boosterParameters, out var booster));
-            var native = new LightGbmNative(booster);
+            var native = new LightGbmBooster(booster);
             for (var i = 0; i < iterations; i++)
             {
                 Check(LGBM_BoosterUpdateOneIter(booster, out var finished));

@@ -1,4 +1,4 @@
-namespace Triage.Scoring.Tests.Trees;
+namespace Triage.Testing.LightGbm;
 
 /// <summary>
 /// Seeded generated rows, row-major: features 0–3 are sometimes missing (NaN), 4–5 are often exactly 0,
