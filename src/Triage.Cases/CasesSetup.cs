@@ -60,6 +60,7 @@ public static class CasesSetup
 
         s.AddScoped<StoreInitialiser>();
         s.AddScoped<QueueService>();
+        s.AddSingleton<AuditSampler>();
         s.AddScoped<TakeNextService>();
         s.AddScoped<UserAccounts>();
         s.AddScoped<CaseFileQuery>();

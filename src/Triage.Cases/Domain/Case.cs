@@ -43,6 +43,10 @@ public sealed class Case
     public string Line { get; private set; } = "";
     public double ClaimedAmount { get; private set; }
     public DateTime ReceivedDate { get; private set; }
+    /// <summary>Opened at random from below the threshold (see <see cref="CaseSelection"/>).</summary>
+    public bool IsAuditSample { get; private set; }
+    /// <summary>Chance this claim had of becoming a case: 1 above the threshold, the audit share below it.</summary>
+    public double SelectionProbability { get; private set; } = 1.0;
     public string? TopDriver1 { get; private set; }
     public string? TopDriver2 { get; private set; }
 
@@ -57,8 +61,9 @@ public sealed class Case
 
     public static Case Open(Claim claim, Explanation explanation, string modelVersion,
         IReadOnlyDictionary<string, string?> scoredValues, IEnumerable<CheckItem> checks,
-        DateTime openedAt, int dueDays, Actor by)
+        DateTime openedAt, int dueDays, Actor by, CaseSelection? selection = null)
     {
+        selection ??= CaseSelection.ByThreshold;
         if (claim.State == ClaimState.Closed)
             throw new DomainRuleException($"Claim {claim.ClaimNumber} is closed; no case can be opened on it.");
         if (dueDays < 1) throw new DomainRuleException($"A case needs at least one day to be worked (got {dueDays}).");
@@ -85,12 +90,15 @@ public sealed class Case
             Line = claim.Line,
             ClaimedAmount = claim.ClaimedAmount,
             ReceivedDate = claim.ReportDate,
+            IsAuditSample = selection.AuditSample,
+            SelectionProbability = selection.Probability,
             TopDriver1 = raising.ElementAtOrDefault(0),
             TopDriver2 = raising.ElementAtOrDefault(1),
             Drivers = drivers,
             Checks = checks.ToList(),
         };
-        c.Record(by, "case.opened", $"risk {c.RiskScore} by model {modelVersion}", openedAt);
+        c.Record(by, "case.opened", $"risk {c.RiskScore} by model {modelVersion}"
+            + (selection.AuditSample ? $", drawn for the audit sample (selection probability {selection.Probability:0.####})" : ""), openedAt);
         return c;
     }
 

@@ -3,6 +3,7 @@ using Microsoft.Extensions.Options;
 using Triage.Cases.Domain;
 using Triage.Cases.Intake;
 using Triage.Cases.Options;
+using Triage.Cases.Queue;
 using Triage.Cases.Store;
 using Triage.Scoring;
 using Triage.Scoring.Models;
@@ -12,8 +13,8 @@ namespace Triage.Cases.FirstStart;
 
 /// <summary>
 /// Gives the demo a closed-case history for the manager pages: the history claims of the holdout months
-/// (which the first model did not train on) are scored, and those at or above the queue threshold become
-/// cases worked through the normal rules and closed with the claim's outcome on its closed date.
+/// (which the first model did not train on) are scored, and those at or above the queue threshold, or drawn
+/// for the audit sample, become cases worked through the normal rules and closed with the claim's outcome on its closed date.
 /// </summary>
 public sealed class HistoricCases(TriageDbContext db, IOptions<ScoringOptions> scoring, IOptions<QueueOptions> queue,
     TimeProvider clock, ILogger<HistoricCases> log)
@@ -36,18 +37,20 @@ public sealed class HistoricCases(TriageDbContext db, IOptions<ScoringOptions> s
             .ToList();
         var scored = CaseOpener.Score(model, holdout.Select(h => (h.Fresh, h.Stored.Values)), ct);
         var random = new Random(Seed);
+        var sampler = new AuditSampler(queue, new Random(Seed + 1));
         var turn = 0;
         var cases = new List<Case>();
         foreach (var (s, h) in scored.Zip(holdout))
         {
-            if (s.Explanation.Probability < queue.Value.Threshold) continue;
+            var selection = sampler.Decide(s.Explanation.Probability);
+            if (selection is null) continue;
             var line = investigators.Where(u => u.Covers(s.Claim.Line)).ToList();
             if (line.Count == 0) continue;
             var who = line[turn++ % line.Count];
             var worker = new Actor(who.Id, who.UserName!, new HashSet<string> { Roles.Investigator });
             var opened = s.Claim.ReportDate;
             var closed = h.Stored.Claim.ClosedDate ?? opened;
-            var c = CaseOpener.Open(s, model.Metadata.Version, playbook, opened, queue.Value.DueDays, Actor.System);
+            var c = CaseOpener.Open(s, model.Metadata.Version, playbook, opened, queue.Value.DueDays, Actor.System, selection);
             c.AssignTo(who, Actor.System, opened, "demo history");
             c.StartReview(worker, opened);
             var outcome = random.NextDouble() < InconclusiveShare ? VerdictOutcome.Inconclusive : h.Stored.Outcome!.Value;

@@ -7,6 +7,7 @@ using Triage.Cases.Domain;
 using Triage.Cases.Hosting;
 using Triage.Cases.Intake;
 using Triage.Cases.Options;
+using Triage.Cases.Queue;
 using Triage.Cases.Store;
 using Triage.Scoring.Models;
 using Triage.Scoring.Schema;
@@ -33,6 +34,7 @@ public sealed class StoreInitialiser(
 {
     private const int BatchSize = 2_000;
     public const string FirstModelVersion = "v1";
+    private const int AuditSeed = 11;
 
     public async Task InitialiseAsync(CancellationToken ct)
     {
@@ -95,10 +97,13 @@ public sealed class StoreInitialiser(
 
         var scored = CaseOpener.Score(model, open.Select(o => (o.Claim, o.Values)), ct);
         var threshold = queue.Value.Threshold;
-        var cases = scored
-            .Where(s => s.Explanation.Probability >= threshold)
-            .Select(s => CaseOpener.Open(s, model.Metadata.Version, playbook, s.Claim.ReportDate, queue.Value.DueDays, Actor.System))
+        // Seeded, so the demo's audit sample is the same on every machine.
+        var sampler = new AuditSampler(queue, new Random(AuditSeed));
+        var opened = scored.Select(s => (Scored: s, Selection: sampler.Decide(s.Explanation.Probability))).Where(x => x.Selection is not null).ToList();
+        var cases = opened
+            .Select(x => CaseOpener.Open(x.Scored, model.Metadata.Version, playbook, x.Scored.Claim.ReportDate, queue.Value.DueDays, Actor.System, x.Selection))
             .ToList();
+        var queuedClaims = opened.Select(x => x.Scored.Claim).ToHashSet();
         AssignDemoCases(cases, team, now);
         db.ChangeTracker.AutoDetectChangesEnabled = false;
         foreach (var batch in cases.Chunk(BatchSize / 4))
@@ -110,9 +115,9 @@ public sealed class StoreInitialiser(
         }
         db.ChangeTracker.AutoDetectChangesEnabled = true;
         // Every open claim keeps the score it arrived with, as claims taken in later do.
-        db.ClaimScores.AddRange(scored.Select(s => ClaimScore.Record(s.Claim, s.Explanation, model.Metadata.Version, s.Explanation.Probability >= threshold, now)));
+        db.ClaimScores.AddRange(scored.Select(s => ClaimScore.Record(s.Claim, s.Explanation, model.Metadata.Version, queuedClaims.Contains(s.Claim), now)));
         db.AuditEvents.Add(new AuditEvent(Actor.System.UserName, "cases.opened",
-            $"{cases.Count} of {scored.Count} open claims scored at or above {threshold:0.00}", now));
+            $"{cases.Count} of {scored.Count} open claims queued: at or above {threshold:0.00} or drawn for the audit sample ({cases.Count(c => c.IsAuditSample)})", now));
         await db.SaveChangesAsync(ct);
         log.LogInformation("Scored {Open} open claims; {Cases} at or above {Threshold:0.00} opened as cases ({Ms} ms)",
             scored.Count, cases.Count, threshold, watch.ElapsedMilliseconds);

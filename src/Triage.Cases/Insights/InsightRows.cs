@@ -34,3 +34,14 @@ public sealed record CalibrationRow(double BandLow, double BandHigh, int Decided
 
 /// <summary>Open cases by days since they opened; overdue = past their due date.</summary>
 public sealed record QueueAgeRow(string Bucket, int Open, int Overdue);
+
+/// <summary>
+/// The audit sample's verdicts (claims drawn at random from below the threshold), the sampled cases still
+/// open, and how many claims were scored below the threshold and not queued. The sample's hit rate
+/// estimates the fraud rate among those claims; times their count, how many frauds the threshold let by.
+/// </summary>
+public sealed record AuditSampleRow(HitRateRow Sample, int StillOpen, int NotQueued)
+{
+    public double? MissedEstimate => Sample.Rate * NotQueued;
+    public (double Low, double High) MissedInterval => (Sample.Interval.Low * NotQueued, Sample.Interval.High * NotQueued);
+}

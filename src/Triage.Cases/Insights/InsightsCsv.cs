@@ -24,6 +24,11 @@ public static class InsightsCsv
     public static void QueueAge(TextWriter to, IEnumerable<QueueAgeRow> rows) =>
         Write(to, ["age", "open", "overdue"], rows.Select(r => new object?[] { r.Bucket, r.Open, r.Overdue }));
 
+    public static void AuditSample(TextWriter to, AuditSampleRow r) =>
+        Write(to, ["confirmed", "not_fraud", "inconclusive", "still_open", "fraud_rate", "wilson95_low", "wilson95_high", "not_queued_claims", "missed_estimate", "missed_low", "missed_high"],
+            [[r.Sample.Confirmed, r.Sample.NotFraud, r.Sample.Inconclusive, r.StillOpen, r.Sample.Rate, r.Sample.Interval.Low, r.Sample.Interval.High,
+              r.NotQueued, r.MissedEstimate, r.MissedInterval.Low, r.MissedInterval.High]]);
+
     private static void Write(TextWriter to, string[] header, IEnumerable<object?[]> rows)
     {
         using var csv = CsvWriter.Create(to, CsvWriterOptions.Default, true);

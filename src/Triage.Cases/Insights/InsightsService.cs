@@ -85,6 +85,33 @@ public sealed class InsightsService(TriageDbContext db, TimeProvider clock)
             .ToList();
     }
 
+    /// <summary>
+    /// Fraud among the claims the threshold did not queue, estimated from the closed audit-sample cases
+    /// (a simple random sample of them), next to how many such claims were scored in the same period.
+    /// </summary>
+    public async Task<AuditSampleRow> AuditSampleAsync(Actor actor, InsightFilter filter, CancellationToken ct)
+    {
+        actor.Require("read the audit sample", Readers);
+        var counts = await Closed(filter).Where(x => x.AuditSample)
+            .GroupBy(x => 1)
+            .Select(g => new
+            {
+                Confirmed = g.Sum(x => x.Outcome == VerdictOutcome.ConfirmedFraud ? 1 : 0),
+                NotFraud = g.Sum(x => x.Outcome == VerdictOutcome.NotFraud ? 1 : 0),
+                Inconclusive = g.Sum(x => x.Outcome == VerdictOutcome.Inconclusive ? 1 : 0),
+            }).SingleOrDefaultAsync(ct);
+        var open = db.Cases.Where(c => c.IsOpen && c.IsAuditSample);
+        if (filter.Line is { } line) open = open.Where(c => c.Line == line);
+        if (filter.ModelVersion is { } version) open = open.Where(c => c.ModelVersion == version);
+        var notQueued = db.ClaimScores.Where(s => !s.Queued);
+        if (filter.Line is { } l) notQueued = notQueued.Where(s => s.Claim!.Line == l);
+        if (filter.ModelVersion is { } v) notQueued = notQueued.Where(s => s.ModelVersion == v);
+        if (filter.From is { } from) notQueued = notQueued.Where(s => s.ScoredAt >= from.ToDateTime(TimeOnly.MinValue, DateTimeKind.Utc));
+        if (filter.To is { } to) notQueued = notQueued.Where(s => s.ScoredAt < to.AddDays(1).ToDateTime(TimeOnly.MinValue, DateTimeKind.Utc));
+        var sample = new HitRateRow("audit", "Audit sample", counts?.Confirmed ?? 0, counts?.NotFraud ?? 0, counts?.Inconclusive ?? 0);
+        return new AuditSampleRow(sample, await open.CountAsync(ct), await notQueued.CountAsync(ct));
+    }
+
     /// <summary>Open cases by age in days since opening, with how many of each are past their due date.</summary>
     public async Task<IReadOnlyList<QueueAgeRow>> QueueAgeAsync(Actor actor, string? line, CancellationToken ct)
     {
@@ -130,6 +157,7 @@ public sealed class InsightsService(TriageDbContext db, TimeProvider clock)
         return cases.Join(verdicts, c => c.Id, v => v.CaseId, (c, v) => new ClosedCase
         {
             CaseId = c.Id, Outcome = v.Outcome, At = v.At, Saved = v.AmountSaved, Assignee = c.AssigneeName, Probability = c.Probability,
+            AuditSample = c.IsAuditSample,
         });
     }
 
@@ -142,5 +170,6 @@ public sealed class InsightsService(TriageDbContext db, TimeProvider clock)
         public double? Saved { get; init; }
         public string? Assignee { get; init; }
         public double Probability { get; init; }
+        public bool AuditSample { get; init; }
     }
 }

@@ -9,7 +9,7 @@ namespace Triage.Cases.Intake;
 /// <summary>A claim with the model's explanation and the feature values it was explained on.</summary>
 public sealed record ScoredClaim(Claim Claim, IReadOnlyDictionary<string, string?> FeatureValues, Explanation Explanation);
 
-/// <summary>Scores claims with a model and opens cases, with the playbook's checks, for those above the threshold.</summary>
+/// <summary>Scores claims with a model and opens cases with the playbook's checks.</summary>
 public static class CaseOpener
 {
     /// <summary>Explains every claim in parallel (the model is thread-safe); the result keeps the input order.</summary>
@@ -18,9 +18,10 @@ public static class CaseOpener
             .Select(c => new ScoredClaim(c.Claim, FeatureValues(model, c.Values), model.Explain(c.Values)))
             .ToList();
 
-    public static Case Open(ScoredClaim scored, string modelVersion, IReadOnlyList<PlaybookRule> playbook, DateTime at, int dueDays, Actor by)
+    public static Case Open(ScoredClaim scored, string modelVersion, IReadOnlyList<PlaybookRule> playbook, DateTime at, int dueDays, Actor by,
+        CaseSelection? selection = null)
     {
-        var c = Case.Open(scored.Claim, scored.Explanation, modelVersion, scored.FeatureValues, [], at, dueDays, by);
+        var c = Case.Open(scored.Claim, scored.Explanation, modelVersion, scored.FeatureValues, [], at, dueDays, by, selection);
         c.Checks.AddRange(ChecksFor(c.Drivers, scored.FeatureValues, playbook));
         return c;
     }

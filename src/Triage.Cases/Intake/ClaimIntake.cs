@@ -5,6 +5,7 @@ using Microsoft.Extensions.Options;
 using Triage.Cases.Domain;
 using Triage.Cases.FirstStart;
 using Triage.Cases.Options;
+using Triage.Cases.Queue;
 using Triage.Cases.Store;
 using Triage.Scoring.Models;
 using Triage.Scoring.Schema;
@@ -15,7 +16,7 @@ namespace Triage.Cases.Intake;
 /// Takes in a batch of claims, all or nothing. A first streaming pass checks every row against the
 /// serving model's schema and the store (duplicates, claim numbers reused with other content); only
 /// when no row is wrong does a second pass score, explain and store the new claims in batches inside
-/// one transaction, opening cases for those at or above the queue threshold. Memory is bounded by the
+/// one transaction, opening cases for those at or above the queue threshold and for the audit sample. Memory is bounded by the
 /// batch size, not the file size.
 /// </summary>
 public sealed class ClaimIntake(
@@ -23,6 +24,7 @@ public sealed class ClaimIntake(
     ServingModels models,
     IOptions<IntakeOptions> options,
     IOptions<QueueOptions> queue,
+    AuditSampler sampler,
     TimeProvider clock,
     ILogger<ClaimIntake> log)
 {
@@ -143,12 +145,12 @@ public sealed class ClaimIntake(
                     if (check.Duplicates.Contains(values[model.Schema.Roles.ClaimNumber]!)) continue;
                     batch.Add((SeedClaims.ToClaim(model.Schema, values), values));
                     if (batch.Count < o.BatchSize) continue;
-                    (stored, queued) = Add(await SaveBatchAsync(batch, model, version, playbook, threshold, dueDays, by, now, ct), stored, queued);
+                    (stored, queued) = Add(await SaveBatchAsync(batch, model, version, playbook, dueDays, by, now, ct), stored, queued);
                     progress?.Report(new ImportProgress("Storing", (double)stored / toStore, stored));
                 }
-            (stored, queued) = Add(await SaveBatchAsync(batch, model, version, playbook, threshold, dueDays, by, now, ct), stored, queued);
+            (stored, queued) = Add(await SaveBatchAsync(batch, model, version, playbook, dueDays, by, now, ct), stored, queued);
             db.AuditEvents.Add(new AuditEvent(by.UserName, "claims.imported",
-                $"{source.Name}: {check.Rows} row(s), {stored} stored, {queued} queued at or above {threshold:0.00} by model {version}, {check.Duplicates.Count} duplicate(s)", now));
+                $"{source.Name}: {check.Rows} row(s), {stored} stored, {queued} queued (at or above {threshold:0.00} or drawn for the audit sample) by model {version}, {check.Duplicates.Count} duplicate(s)", now));
             await db.SaveChangesAsync(ct);
             await tx.CommitAsync(ct);
         }
@@ -163,16 +165,17 @@ public sealed class ClaimIntake(
     }
 
     private async Task<(int Stored, int Queued)> SaveBatchAsync(List<(Claim, IReadOnlyDictionary<string, string?>)> batch, ScoringModel model,
-        string version, IReadOnlyList<PlaybookRule> playbook, double threshold, int dueDays, Actor by, DateTime now, CancellationToken ct)
+        string version, IReadOnlyList<PlaybookRule> playbook, int dueDays, Actor by, DateTime now, CancellationToken ct)
     {
         if (batch.Count == 0) return (0, 0);
         var queued = 0;
         foreach (var s in CaseOpener.Score(model, batch, ct))
         {
-            var opens = s.Explanation.Probability >= threshold;
+            var selection = sampler.Decide(s.Explanation.Probability);
+            var opens = selection is not null;
             if (opens)
             {
-                db.Cases.Add(CaseOpener.Open(s, version, playbook, now, dueDays, by));
+                db.Cases.Add(CaseOpener.Open(s, version, playbook, now, dueDays, by, selection));
                 queued++;
             }
             else db.Claims.Add(s.Claim);

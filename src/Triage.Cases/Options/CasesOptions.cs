@@ -31,6 +31,11 @@ public sealed class QueueOptions
     [Range(0.0, 1.0)] public double Threshold { get; set; } = 0.2;
     /// <summary>Days an investigator has to close a case once it opens.</summary>
     [Range(1, 365)] public int DueDays { get; set; } = 10;
+    /// <summary>
+    /// Share of claims below the threshold that open a case anyway, at random (the audit sample), so the
+    /// fraud the model misses can be estimated and the next model learns from more than its own picks.
+    /// </summary>
+    [Range(0.0, 1.0)] public double AuditShare { get; set; } = 0.02;
 }
 
 /// <summary>Rules the attributes cannot state; each message names the configuration key.</summary>

@@ -8,7 +8,7 @@ namespace Triage.Web.Insights;
 
 public static class InsightsEndpoints
 {
-    public static readonly string[] Tables = ["drivers", "investigators", "months", "calibration", "queue-age"];
+    public static readonly string[] Tables = ["drivers", "investigators", "months", "calibration", "audit-sample", "queue-age"];
 
     /// <summary>The CSV address of a table with the page's filters, e.g. /insights/drivers.csv?line=motor.</summary>
     public static string PathFor(string table, InsightFilter f)
@@ -41,6 +41,7 @@ public static class InsightsEndpoints
                     case "investigators": InsightsCsv.HitRates(text, await insights.ByInvestigatorAsync(actor, filter, ct), "investigator"); break;
                     case "months": InsightsCsv.Months(text, await insights.ByMonthAsync(actor, filter, ct)); break;
                     case "calibration": InsightsCsv.Calibration(text, await insights.CalibrationAsync(actor, filter, ct)); break;
+                    case "audit-sample": InsightsCsv.AuditSample(text, await insights.AuditSampleAsync(actor, filter, ct)); break;
                     default: InsightsCsv.QueueAge(text, await insights.QueueAgeAsync(actor, filter.Line, ct)); break;
                 }
                 return Results.File(Encoding.UTF8.GetBytes(text.ToString()), "text/csv", $"{table}.csv");

@@ -9,7 +9,7 @@ using Triage.Cases.Tests.Support;
 namespace Triage.Cases.Tests.Intake;
 
 /// <summary>A store after first start on the tiny seed, with a small model (20 trees) serving.</summary>
-public sealed class IntakeFixture : IAsyncLifetime
+public class IntakeFixture : IAsyncLifetime
 {
     public static readonly Actor Analyst = new("id-analyst", "ana.lyst", new HashSet<string> { Roles.Analyst });
 
@@ -17,15 +17,20 @@ public sealed class IntakeFixture : IAsyncLifetime
 
     public async Task InitializeAsync()
     {
-        Store = TestStore.Create(extra: new()
+        var settings = new Dictionary<string, string?>
         {
             ["Scoring:FastTree:NumberOfTrees"] = "20",
             ["Scoring:FastTree:NumberOfLeaves"] = "6",
             ["Demo:Enabled"] = "false",
-        });
+        };
+        foreach (var (k, v) in ExtraSettings) settings[k] = v;
+        Store = TestStore.Create(extra: settings);
         Store.WriteSeed(historyRows: 400, openRows: 30);
         await Store.Host.Services.InitialiseStoreAsync();
     }
+
+    /// <summary>Settings a derived fixture changes on top of the defaults above.</summary>
+    protected virtual IReadOnlyDictionary<string, string?> ExtraSettings => new Dictionary<string, string?>();
 
     public async Task DisposeAsync() => await Store.DisposeAsync();
 

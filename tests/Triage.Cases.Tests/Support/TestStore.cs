@@ -37,6 +37,8 @@ public sealed class TestStore : IAsyncDisposable
             ["Demo:Password"] = TinySeed.Password,
             ["Demo:SeedFolder"] = Path.Combine(Folder, "seed"),
             ["Queue:Threshold"] = "0.3",
+            // No random audit sample unless a test asks for one, so which claims queue is exact.
+            ["Queue:AuditShare"] = "0",
         };
         if (provider == "Postgres")
         {

@@ -313,6 +313,9 @@ namespace Triage.Cases.Store.Migrations.Postgres
                     b.Property<DateTime>("DueDate")
                         .HasColumnType("timestamp with time zone");
 
+                    b.Property<bool>("IsAuditSample")
+                        .HasColumnType("boolean");
+
                     b.Property<bool>("IsOpen")
                         .HasColumnType("boolean");
 
@@ -344,6 +347,9 @@ namespace Triage.Cases.Store.Migrations.Postgres
                     b.Property<string>("ScoredValuesJson")
                         .IsRequired()
                         .HasColumnType("text");
+
+                    b.Property<double>("SelectionProbability")
+                        .HasColumnType("double precision");
 
                     b.Property<string>("Status")
                         .IsRequired()

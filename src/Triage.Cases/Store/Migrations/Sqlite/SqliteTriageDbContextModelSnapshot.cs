@@ -296,6 +296,9 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                     b.Property<DateTime>("DueDate")
                         .HasColumnType("TEXT");
 
+                    b.Property<bool>("IsAuditSample")
+                        .HasColumnType("INTEGER");
+
                     b.Property<bool>("IsOpen")
                         .HasColumnType("INTEGER");
 
@@ -327,6 +330,9 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                     b.Property<string>("ScoredValuesJson")
                         .IsRequired()
                         .HasColumnType("TEXT");
+
+                    b.Property<double>("SelectionProbability")
+                        .HasColumnType("REAL");
 
                     b.Property<string>("Status")
                         .IsRequired()
