@@ -6,6 +6,7 @@ using Microsoft.Extensions.DependencyInjection.Extensions;
 using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Options;
 using Triage.Cases.Accounts;
+using Triage.Cases.Backup;
 using Triage.Cases.ApiKeys;
 using Triage.Cases.CaseFile;
 using Triage.Cases.CaseWork;
@@ -73,6 +74,7 @@ public static class CasesSetup
         s.AddScoped<ReassignService>();
         s.AddScoped<InsightsService>();
         s.AddScoped<HistoricCases>();
+        s.AddScoped<StoreBackup>();
         return b;
     }
 
