@@ -7,6 +7,7 @@ using Triage.Web.Components;
 using Triage.Web.Insights;
 using Triage.Web.Reports;
 using Triage.Web.Intake;
+using Triage.Web.Security;
 
 namespace Triage.Web;
 
@@ -26,7 +27,15 @@ public static class WebSetup
             o.AccessDeniedPath = AccountEndpoints.SignInPage;
             o.SlidingExpiration = true;
             o.ExpireTimeSpan = TimeSpan.FromHours(10);
+            // Script cannot read it; other sites' links still arrive signed in (Lax), their posts do not.
+            // Secure follows the request, so the cookie is Secure as soon as the app is served over HTTPS.
+            o.Cookie.HttpOnly = true;
+            o.Cookie.SameSite = SameSiteMode.Lax;
+            o.Cookie.SecurePolicy = CookieSecurePolicy.SameAsRequest;
         });
+        s.AddRequestLimits();
+        // Our own X-Frame-Options (with the CSP's frame-ancestors) covers every response, not only forms.
+        s.AddAntiforgery(o => o.SuppressXFrameOptionsHeader = true);
         new IdentityBuilder(typeof(TriageUser), typeof(IdentityRole), s)
             .AddSignInManager()
             .AddClaimsPrincipalFactory<TriageClaimsFactory>();
@@ -38,13 +47,19 @@ public static class WebSetup
     public static WebApplication MapTriageWeb(this WebApplication app)
     {
         if (!app.Environment.IsDevelopment()) app.UseExceptionHandler("/error", createScopeForErrors: true);
+        // Headers and limits first, so they also cover the sign-in redirects that authorization answers with.
+        app.UseSecurityHeaders();
+        app.UseRateLimiter();
+        app.UseAuthentication();
+        app.UseAuthorization();
         app.UseAntiforgery();
         app.MapStaticAssets().AllowAnonymous();
         app.MapAccountEndpoints();
         app.MapReportEndpoints();
         app.MapIntakeEndpoints();
         app.MapInsightsEndpoints();
-        app.MapRazorComponents<App>().AddInteractiveServerRenderMode();
+        // Our policy already says frame-ancestors 'none'; Blazor's own second policy header would only repeat it.
+        app.MapRazorComponents<App>().AddInteractiveServerRenderMode(o => o.ContentSecurityFrameAncestorsPolicy = null);
         return app;
     }
 }

@@ -8,7 +8,12 @@ public sealed class Browser : IAsyncLifetime
     private readonly string _profile = Path.Combine(Path.GetTempPath(), "triage-e2e-profile", Guid.NewGuid().ToString("N"));
     private IPlaywright? _playwright;
 
+    private readonly List<string> _cspViolations = [];
+
     public IBrowserContext Context { get; private set; } = default!;
+
+    /// <summary>Console reports of anything the content security policy blocked, on every page of the context.</summary>
+    public IReadOnlyList<string> CspViolations { get { lock (_cspViolations) return [.. _cspViolations]; } }
 
     public async Task InitializeAsync()
     {
@@ -23,7 +28,15 @@ public sealed class Browser : IAsyncLifetime
                 "--disable-component-update", "--disable-sync"],
         });
         Context.SetDefaultTimeout(20_000);
+        foreach (var page in Context.Pages) Watch(page);
+        Context.Page += (_, page) => Watch(page);
     }
+
+    private void Watch(IPage page) => page.Console += (_, message) =>
+    {
+        if (!message.Text.Contains("Content Security Policy", StringComparison.OrdinalIgnoreCase)) return;
+        lock (_cspViolations) _cspViolations.Add($"{page.Url}: {message.Text}");
+    };
 
     public async Task DisposeAsync()
     {

@@ -9,6 +9,7 @@ namespace Triage.Web.Account;
 public static class AccountEndpoints
 {
     public const string SignInPage = "/signin";
+    public const string SignInPost = "/account/signin";
 
     public static void MapAccountEndpoints(this IEndpointRouteBuilder app)
     {

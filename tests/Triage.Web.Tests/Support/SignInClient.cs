@@ -7,7 +7,7 @@ namespace Triage.Web.Tests.Support;
 /// <summary>Signs in the way a browser does: read the form's antiforgery token, post the form with the cookie.</summary>
 public static partial class SignInClient
 {
-    public static HttpClient Anonymous(TriageWebFactory factory) =>
+    public static HttpClient Anonymous(WebApplicationFactory<Program> factory) =>
         factory.CreateClient(new WebApplicationFactoryClientOptions { AllowAutoRedirect = false, HandleCookies = true });
 
     public static async Task<string> TokenAsync(HttpClient client)
