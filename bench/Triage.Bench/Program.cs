@@ -1,5 +1,6 @@
 using Triage.Bench.Explain;
 using Triage.Bench.Intake;
+using Triage.Bench.Load;
 using Triage.Bench.Queue;
 
 // Each benchmark lives in its own folder; add a case here for a new one.
@@ -8,6 +9,7 @@ var benchmarks = new Dictionary<string, Func<string[], Task<int>>>
     ["explain"] = _ => Task.FromResult(ExplainBenchmark.Run()),
     ["queue"] = async rest => { await QueueBenchmark.RunAsync(rest); return 0; },
     ["intake"] = IntakeBenchmark.RunAsync,
+    ["load"] = LoadBenchmark.RunAsync,
 };
 
 if (args.Length == 0 || !benchmarks.TryGetValue(args[0], out var run))
