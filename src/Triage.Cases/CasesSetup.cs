@@ -11,6 +11,7 @@ using Triage.Cases.ApiKeys;
 using Triage.Cases.CaseFile;
 using Triage.Cases.CaseWork;
 using Triage.Cases.Domain;
+using Triage.Cases.Drift;
 using Triage.Cases.FirstStart;
 using Triage.Cases.Hosting;
 using Triage.Cases.Intake;
@@ -33,6 +34,7 @@ public static class CasesSetup
         s.AddOptions<StorageOptions>().BindConfiguration(StorageOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddOptions<DemoOptions>().BindConfiguration(DemoOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddOptions<QueueOptions>().BindConfiguration(QueueOptions.Section).ValidateDataAnnotations().ValidateOnStart();
+        s.AddOptions<DriftOptions>().BindConfiguration(DriftOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddOptions<IntakeOptions>().BindConfiguration(IntakeOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddSingleton<IValidateOptions<StorageOptions>, StorageOptionsValidator>();
         s.AddSingleton<IValidateOptions<DemoOptions>, DemoOptionsValidator>();
@@ -75,6 +77,7 @@ public static class CasesSetup
         s.AddScoped<InsightsService>();
         s.AddScoped<HistoricCases>();
         s.AddScoped<StoreBackup>();
+        s.AddScoped<DriftService>();
         return b;
     }
 
