@@ -12,6 +12,7 @@ using Triage.Cases.CaseFile;
 using Triage.Cases.CaseWork;
 using Triage.Cases.Domain;
 using Triage.Cases.Drift;
+using Triage.Cases.Export;
 using Triage.Cases.FirstStart;
 using Triage.Cases.Hosting;
 using Triage.Cases.Intake;
@@ -78,6 +79,8 @@ public static class CasesSetup
         s.AddScoped<HistoricCases>();
         s.AddScoped<StoreBackup>();
         s.AddScoped<DriftService>();
+        s.AddScoped<OutcomeExportService>();
+        s.AddSingleton<Pseudonyms>();
         return b;
     }
 
