@@ -4,6 +4,7 @@ using MudBlazor.Services;
 using Triage.Cases.Domain;
 using Triage.Web.Account;
 using Triage.Web.Components;
+using Triage.Web.Export;
 using Triage.Web.Insights;
 using Triage.Web.Reports;
 using Triage.Web.Intake;
@@ -60,6 +61,8 @@ public static class WebSetup
         app.MapInsightsEndpoints();
         // Our policy already says frame-ancestors 'none'; Blazor's own second policy header would only repeat it.
         app.MapRazorComponents<App>().AddInteractiveServerRenderMode(o => o.ContentSecurityFrameAncestorsPolicy = null);
+        app.MapExportEndpoints();
+        app.MapRazorComponents<App>().AddInteractiveServerRenderMode();
         return app;
     }
 }
