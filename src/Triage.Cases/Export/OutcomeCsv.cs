@@ -4,17 +4,31 @@ using CsvHelper;
 namespace Triage.Cases.Export;
 
 /// <summary>
-/// Writes outcome rows as CSV with CsvHelper, one row at a time: invariant numbers, true/false, times as
-/// ISO 8601 UTC, an empty field for a missing value or an absent label.
+/// Writes outcome rows as UTF-8 CSV with CsvHelper, one row at a time: invariant numbers, true/false, times as
+/// ISO 8601 UTC, an empty field for a missing value or an absent label. CsvHelper writes synchronously, which
+/// a response stream refuses, so rows collect in a small buffer that is copied out asynchronously every
+/// <see cref="RowsPerChunk"/> rows.
 /// </summary>
 public static class OutcomeCsv
 {
-    public static async Task<int> WriteAsync(TextWriter to, IReadOnlyList<ExportColumn> columns, bool pseudonymised,
+    public const int RowsPerChunk = 1_000;
+
+    public static async Task<int> WriteAsync(Stream to, IReadOnlyList<ExportColumn> columns, bool pseudonymised,
         IAsyncEnumerable<OutcomeRow> rows, CancellationToken ct)
     {
-        using var csv = CsvWriter.Create(to, CsvWriterOptions.Default, true);
+        using var chunk = new MemoryStream();
+        using var text = new StreamWriter(chunk, new System.Text.UTF8Encoding(false), 16 * 1024, leaveOpen: true);
+        using var csv = CsvWriter.Create(text, CsvWriterOptions.Default, true);
+        async Task SendAsync()
+        {
+            csv.Flush();
+            text.Flush();
+            await to.WriteAsync(chunk.GetBuffer().AsMemory(0, (int)chunk.Length), ct);
+            chunk.SetLength(0);
+        }
+
         foreach (var name in OutcomeColumns.Fixed(pseudonymised).Concat(columns.Select(c => c.Name))) csv.WriteField(name);
-        await csv.EndRecordAsync(ct);
+        csv.EndRecord();
         var count = 0;
         await foreach (var r in rows.WithCancellation(ct))
         {
@@ -29,10 +43,11 @@ public static class OutcomeCsv
             csv.WriteField(r.IsAuditSample ? "true" : "false");
             csv.WriteField(Number(r.SelectionProbability));
             foreach (var c in columns) csv.WriteField(Value(c, r.Values.GetValueOrDefault(c.Name)));
-            await csv.EndRecordAsync(ct);
-            count++;
+            csv.EndRecord();
+            if (++count % RowsPerChunk == 0) await SendAsync();
         }
-        await csv.FlushAsync(ct);
+        await SendAsync();
+        await to.FlushAsync(ct);
         return count;
     }
 

@@ -62,10 +62,7 @@ public sealed class OutcomeExportService(TriageDbContext db, Pseudonyms pseudony
             try
             {
                 if (format == ExportFormat.Csv)
-                {
-                    await using var text = new StreamWriter(to, new System.Text.UTF8Encoding(false), 64 * 1024, leaveOpen: true);
-                    await OutcomeCsv.WriteAsync(text, columns, filter.Pseudonymise, rows, ct);
-                }
+                    await OutcomeCsv.WriteAsync(to, columns, filter.Pseudonymise, rows, ct);
                 else if (to.CanSeek)
                     await OutcomeParquet.WriteAsync(to, columns, filter.Pseudonymise, rows, ct);
                 else
