@@ -98,8 +98,8 @@ public sealed class OutcomeExportService(TriageDbContext db, Pseudonyms pseudony
         return cases.Join(verdicts, c => c.Id, v => v.CaseId, (c, v) => new Selection
         {
             CaseId = c.Id, ClaimNumber = c.ClaimNumber, Line = c.Line, OpenedAt = c.OpenedAt, VerdictAt = v.At, Outcome = v.Outcome,
-            Probability = c.Probability, ModelVersion = c.ModelVersion, IsAuditSample = false /* TEMP-AUDIT */,
-            SelectionProbability = 1.0 /* TEMP-AUDIT */, ScoredValuesJson = c.ScoredValuesJson,
+            Probability = c.Probability, ModelVersion = c.ModelVersion, IsAuditSample = c.IsAuditSample,
+            SelectionProbability = c.SelectionProbability, ScoredValuesJson = c.ScoredValuesJson,
         });
     }
 

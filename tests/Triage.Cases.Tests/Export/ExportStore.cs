@@ -10,7 +10,9 @@ namespace Triage.Cases.Tests.Export;
 public sealed class ExportStore : IAsyncLifetime
 {
     public static readonly Actor Analyst = new("id-olu", "olu.berg", new HashSet<string> { Roles.Analyst });
-    public TestStore Store { get; } = TestStore.Create();
+    // Half the claims below the threshold join the audit sample, so the demo history holds some for sure.
+    public const double AuditShare = 0.5;
+    public TestStore Store { get; } = TestStore.Create(extra: new() { ["Queue:AuditShare"] = "0.5" });
 
     public async Task InitializeAsync()
     {

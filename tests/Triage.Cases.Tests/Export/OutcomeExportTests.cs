@@ -73,6 +73,24 @@ public sealed class OutcomeExportTests(ExportStore s) : IClassFixture<ExportStor
     }
 
     [Fact]
+    public async Task Audit_sample_cases_carry_their_flag_and_selection_probability()
+    {
+        var closed = (await s.ClosedAsync()).Where(x => x.Verdict.Outcome != VerdictOutcome.Inconclusive).ToDictionary(x => x.Case.ClaimNumber, x => x.Case);
+        Assert.Contains(closed.Values, c => c.IsAuditSample);
+        Assert.Contains(closed.Values, c => !c.IsAuditSample);
+        var csv = ReadCsv(await s.ExportAsync(new ExportFilter(), ExportFormat.Csv)).Rows;
+        Assert.All(csv, r =>
+        {
+            var c = closed[r["claim_number"]];
+            Assert.Equal(c.IsAuditSample ? "true" : "false", r["audit_sample"]);
+            Assert.Equal(c.IsAuditSample ? ExportStore.AuditShare : 1.0, double.Parse(r["selection_probability"], CultureInfo.InvariantCulture));
+        });
+        var (_, columns) = await ReadParquetAsync(await s.ExportAsync(new ExportFilter(), ExportFormat.Parquet));
+        var flags = columns["claim_number"].Zip(columns["audit_sample"], columns["selection_probability"]).ToList();
+        Assert.All(flags, f => Assert.Equal((closed[(string)f.First!].IsAuditSample, closed[(string)f.First!].SelectionProbability), ((bool)f.Second!, (double)f.Third!)));
+    }
+
+    [Fact]
     public async Task Inconclusive_verdicts_come_only_when_asked_for_with_no_label()
     {
         var inconclusive = (await s.ClosedAsync()).Count(x => x.Verdict.Outcome == VerdictOutcome.Inconclusive);
