@@ -15,10 +15,12 @@ public sealed record FieldDriftRow(string Field, string DisplayName, FieldDrift 
 /// </summary>
 public sealed record DriftReport(
     string? ModelVersion, int WindowDays, DateOnly From, DateOnly To, int Claims, int TrainingRows,
-    IReadOnlyList<FieldDriftRow> Fields, FieldDrift? Score, string? Unavailable)
+    IReadOnlyList<FieldDriftRow> Fields, FieldDrift? Score, string? Unavailable, int MinimumClaims = 1)
 {
     public bool IsAvailable => Unavailable is null;
-    /// <summary>Fields past the act threshold, most drifted first.</summary>
-    public IReadOnlyList<FieldDriftRow> Flagged => [.. Fields.Where(f => f.Band == DriftBand.Act).OrderByDescending(f => f.Psi)];
-    public bool ScoreFlagged => Score?.Band == DriftBand.Act;
+    /// <summary>Too few recent claims to tell drift from noise: figures are shown, nothing is flagged.</summary>
+    public bool TooFewClaims => IsAvailable && Claims < MinimumClaims;
+    /// <summary>Fields past the act threshold, most drifted first (none while there are too few claims).</summary>
+    public IReadOnlyList<FieldDriftRow> Flagged => TooFewClaims ? [] : [.. Fields.Where(f => f.Band == DriftBand.Act).OrderByDescending(f => f.Psi)];
+    public bool ScoreFlagged => !TooFewClaims && Score?.Band == DriftBand.Act;
 }

@@ -40,10 +40,10 @@ public sealed class DriftService(TriageDbContext db, ServingModels models, IOpti
         if (model.Drift is not { } baseline)
             return Empty(version, $"Model {version} was saved before drift baselines existed; retrain to get one.");
 
-        var start = from.ToDateTime(TimeOnly.MinValue, DateTimeKind.Utc);
+        var (start, end) = (from.ToDateTime(TimeOnly.MinValue, DateTimeKind.Utc), to.AddDays(1).ToDateTime(TimeOnly.MinValue, DateTimeKind.Utc));
         var tally = new DriftTally(model.Schema, baseline);
         var recent = db.Claims.AsNoTracking()
-            .Where(c => c.ReportDate >= start && db.ClaimScores.Any(s => s.ClaimId == c.Id))
+            .Where(c => c.ReportDate >= start && c.ReportDate < end && db.ClaimScores.Any(s => s.ClaimId == c.Id))
             .Select(c => c.FieldValuesJson)
             .AsAsyncEnumerable();
         await foreach (var json in recent.WithCancellation(ct))
@@ -54,7 +54,7 @@ public sealed class DriftService(TriageDbContext db, ServingModels models, IOpti
         if (tally.Claims == 0)
             return Empty(version, $"No scored claims were reported from {from:yyyy-MM-dd} to {to:yyyy-MM-dd}, so there is nothing to compare yet.");
         var fields = tally.Fields().Select(f => new FieldDriftRow(f.Name, DisplayName(model.Schema, f.Name), f)).ToList();
-        return new DriftReport(version, days, from, to, tally.Claims, baseline.Rows, fields, tally.Score(), null);
+        return new DriftReport(version, days, from, to, tally.Claims, baseline.Rows, fields, tally.Score(), null, options.Value.MinimumClaims);
     }
 
     private static string DisplayName(ClaimSchema schema, string name) =>

@@ -52,6 +52,26 @@ public sealed class DriftServiceTests
         Assert.Equal(1.0, report.Score!.Bins.Sum(b => b.Expected), 9);
         // TinySeed's history has one branch office and one age band only, so a field outside them cannot drift: branch stays stable.
         Assert.Equal(DriftBand.Stable, report.Fields.Single(f => f.Field == "branch_office").Band);
+
+        // 80 claims is below Drift:MinimumClaims (200): the figures stand, but nothing is flagged however high.
+        Assert.True(report.TooFewClaims);
+        Assert.Empty(report.Flagged);
+        Assert.False(report.ScoreFlagged);
+    }
+
+    [Fact]
+    public async Task With_enough_claims_fields_past_the_act_threshold_are_flagged_most_drifted_first()
+    {
+        var store = TestStore.Create(extra: new() { ["Drift:MinimumClaims"] = "50" });
+        await using var _ = store;
+        store.WriteSeed(historyRows: 600, openRows: 80);
+        await store.Host.Services.InitialiseStoreAsync();
+        var report = await Service(store).CurrentAsync(Analyst, default);
+        Assert.False(report.TooFewClaims);
+        var act = report.Fields.Where(f => f.Band == DriftBand.Act).OrderByDescending(f => f.Psi).Select(f => f.Field).ToList();
+        Assert.Equal(act, report.Flagged.Select(f => f.Field));
+        // 80 claims over the 41 repairer bins: noise alone gives about 40 / 80 = 0.5, past 0.25.
+        Assert.Contains("repairer_code", act);
     }
 
     [Fact]
