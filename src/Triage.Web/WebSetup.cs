@@ -59,10 +59,9 @@ public static class WebSetup
         app.MapReportEndpoints();
         app.MapIntakeEndpoints();
         app.MapInsightsEndpoints();
+        app.MapExportEndpoints();
         // Our policy already says frame-ancestors 'none'; Blazor's own second policy header would only repeat it.
         app.MapRazorComponents<App>().AddInteractiveServerRenderMode(o => o.ContentSecurityFrameAncestorsPolicy = null);
-        app.MapExportEndpoints();
-        app.MapRazorComponents<App>().AddInteractiveServerRenderMode();
         return app;
     }
 }
