@@ -11,6 +11,8 @@ using Triage.Cases.ApiKeys;
 using Triage.Cases.CaseFile;
 using Triage.Cases.CaseWork;
 using Triage.Cases.Domain;
+using Triage.Cases.Drift;
+using Triage.Cases.Export;
 using Triage.Cases.FirstStart;
 using Triage.Cases.Hosting;
 using Triage.Cases.Intake;
@@ -33,6 +35,7 @@ public static class CasesSetup
         s.AddOptions<StorageOptions>().BindConfiguration(StorageOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddOptions<DemoOptions>().BindConfiguration(DemoOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddOptions<QueueOptions>().BindConfiguration(QueueOptions.Section).ValidateDataAnnotations().ValidateOnStart();
+        s.AddOptions<DriftOptions>().BindConfiguration(DriftOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddOptions<IntakeOptions>().BindConfiguration(IntakeOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddSingleton<IValidateOptions<StorageOptions>, StorageOptionsValidator>();
         s.AddSingleton<IValidateOptions<DemoOptions>, DemoOptionsValidator>();
@@ -75,6 +78,9 @@ public static class CasesSetup
         s.AddScoped<InsightsService>();
         s.AddScoped<HistoricCases>();
         s.AddScoped<StoreBackup>();
+        s.AddScoped<DriftService>();
+        s.AddScoped<OutcomeExportService>();
+        s.AddSingleton<Pseudonyms>();
         return b;
     }
 

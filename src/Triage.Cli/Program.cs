@@ -8,5 +8,6 @@ root.Subcommands.Add(Triage.Cli.Users.UsersCommand.Create());
 root.Subcommands.Add(Triage.Cli.Import.ImportCommand.Create());
 root.Subcommands.Add(Triage.Cli.ApiKeys.ApiKeysCommand.Create());
 foreach (var c in Triage.Cli.Backup.BackupCommand.Create()) root.Subcommands.Add(c);
+root.Subcommands.Add(Triage.Cli.Export.ExportCommand.Create());
 
 return await root.Parse(args).InvokeAsync();

@@ -4,6 +4,7 @@ using MudBlazor.Services;
 using Triage.Cases.Domain;
 using Triage.Web.Account;
 using Triage.Web.Components;
+using Triage.Web.Export;
 using Triage.Web.Insights;
 using Triage.Web.Reports;
 using Triage.Web.Intake;
@@ -58,6 +59,7 @@ public static class WebSetup
         app.MapReportEndpoints();
         app.MapIntakeEndpoints();
         app.MapInsightsEndpoints();
+        app.MapExportEndpoints();
         // Our policy already says frame-ancestors 'none'; Blazor's own second policy header would only repeat it.
         app.MapRazorComponents<App>().AddInteractiveServerRenderMode(o => o.ContentSecurityFrameAncestorsPolicy = null);
         return app;

@@ -1,5 +1,6 @@
 using System.IO.Compression;
 using System.Text.Json;
+using Triage.Scoring.Drift;
 using Triage.Scoring.Drivers;
 using Triage.Scoring.Schema;
 
@@ -7,7 +8,8 @@ namespace Triage.Scoring.Models;
 
 /// <summary>
 /// One zip per model version: format.json (marker and version), metadata.json, schema.json,
-/// explainer.json, stats.json and the ML.NET model as model.zip. Written to a temporary file in the
+/// explainer.json, stats.json, drift.json (the drift baseline; files written before it existed load
+/// without one) and the ML.NET model as model.zip. Written to a temporary file in the
 /// same folder and renamed, so a reader never sees half a model.
 /// </summary>
 internal static class ModelFile
@@ -15,7 +17,7 @@ internal static class ModelFile
     public const string Format = "triage-scoring-model";
     public const int FormatVersion = 1;
     private const string MarkerPart = "format.json", MetadataPart = "metadata.json", SchemaPart = "schema.json",
-        ExplainerPartName = "explainer.json", StatsPart = "stats.json", MlNetPart = "model.zip";
+        ExplainerPartName = "explainer.json", StatsPart = "stats.json", DriftPart = "drift.json", MlNetPart = "model.zip";
 
     private sealed record Marker(string Format, int Version);
 
@@ -38,6 +40,7 @@ internal static class ModelFile
                 Put(zip, SchemaPart, JsonSerializer.SerializeToUtf8Bytes(model.Schema, Json));
                 Put(zip, ExplainerPartName, JsonSerializer.SerializeToUtf8Bytes(model.Part, Json));
                 Put(zip, StatsPart, JsonSerializer.SerializeToUtf8Bytes(model.Stats, Json));
+                if (model.Drift is not null) Put(zip, DriftPart, JsonSerializer.SerializeToUtf8Bytes(model.Drift, Json));
                 Put(zip, MlNetPart, model.MlNetModel);
             }
             File.Move(temp, full, overwrite: true);
@@ -66,7 +69,8 @@ internal static class ModelFile
                 schema,
                 Part<ExplainerPart>(zip, ExplainerPartName),
                 Part<List<FieldStats>>(zip, StatsPart),
-                Bytes(zip, MlNetPart));
+                Bytes(zip, MlNetPart),
+                zip.GetEntry(DriftPart) is null ? null : Part<DriftBaseline>(zip, DriftPart));
         }
         catch (Exception e) when (e is InvalidDataException or JsonException or ArgumentException)
         {

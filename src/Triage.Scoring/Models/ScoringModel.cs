@@ -1,4 +1,5 @@
 using Microsoft.ML;
+using Triage.Scoring.Drift;
 using Triage.Scoring.Drivers;
 using Triage.Scoring.Explaining;
 using Triage.Scoring.Features;
@@ -15,8 +16,10 @@ public sealed class ScoringModel
     private readonly TreeShapExplainer? _shap;
     private readonly FieldStats[] _statsByField;
 
-    internal ScoringModel(ModelMetadata metadata, ClaimSchema schema, ExplainerPart part, IReadOnlyList<FieldStats> stats, byte[] mlNetModel)
+    internal ScoringModel(ModelMetadata metadata, ClaimSchema schema, ExplainerPart part, IReadOnlyList<FieldStats> stats, byte[] mlNetModel,
+        DriftBaseline? drift = null)
     {
+        Drift = drift;
         Metadata = metadata;
         Schema = schema;
         Part = part;
@@ -42,6 +45,8 @@ public sealed class ScoringModel
     /// <summary>Expected log-odds over the training rows: every explanation starts here.</summary>
     public double BaseValue { get; }
     public IReadOnlyList<string> Fields => Layout.Base.Fields;
+    /// <summary>How the training rows spread over each field's bins and the score's; null for files saved before baselines.</summary>
+    public DriftBaseline? Drift { get; }
 
     internal FeatureLayout Layout { get; }
     internal ExplainerPart Part { get; }

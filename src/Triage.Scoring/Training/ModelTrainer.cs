@@ -1,5 +1,6 @@
 using Microsoft.Extensions.Options;
 using Microsoft.ML;
+using Triage.Scoring.Drift;
 using Triage.Scoring.Drivers;
 using Triage.Scoring.Features;
 using Triage.Scoring.Metrics;
@@ -54,7 +55,8 @@ public sealed class ModelTrainer(IOptions<ScoringOptions> options)
         var metadata = new ModelMetadata(request.Version, kind, DateTime.UtcNow, TrainingDataHash.Compute(schema, rows),
             train.Count, holdout.Count, train.Sum(r => r.IsFraud ? r.Weight : 0) / train.Sum(r => r.Weight), metrics, request.TrainedBy);
         var part = new ExplainerPart(layout.Columns, missing, fitted.Trees, fitted.Linear, imputation);
-        var model = new ScoringModel(metadata, schema, part, FieldStats.Compute(schema, [.. train.Select(r => r.Values)]), SaveMlNet(ml, fitted, layout.Count));
+        var drift = DriftBaseline.Compute(schema, train, [.. trainX.Select(x => ScoringModel.Sigmoid(fitted.Trees?.Predict(x) ?? fitted.Linear!.Predict(x)))]);
+        var model = new ScoringModel(metadata, schema, part, FieldStats.Compute(schema, [.. train.Select(r => r.Values)]), SaveMlNet(ml, fitted, layout.Count), drift);
         progress?.Report(new("Done", 1.0));
         return model;
     }

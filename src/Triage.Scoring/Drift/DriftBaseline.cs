@@ -1,0 +1,64 @@
+using Triage.Scoring.Features;
+using Triage.Scoring.Schema;
+using Triage.Scoring.Training;
+
+namespace Triage.Scoring.Drift;
+
+/// <summary>
+/// How the training rows were spread over each feature field's bins and over the score's bins, saved with
+/// the model (drift.json) so recent claims can be compared with exactly what the model learnt from.
+/// Number bins are the training deciles; rows count with their training weights.
+/// </summary>
+public sealed record DriftBaseline(int Rows, IReadOnlyList<DriftBins> Fields, DriftBins Score)
+{
+    public const string ScoreName = "score";
+    private const int Deciles = 10;
+
+    /// <summary>From the rows a model was fitted on and its probabilities for them.</summary>
+    public static DriftBaseline Compute(ClaimSchema schema, IReadOnlyList<LabelledClaim> rows, IReadOnlyList<double> scores)
+    {
+        if (rows.Count != scores.Count) throw new ArgumentException($"{rows.Count} rows but {scores.Count} scores.");
+        var weights = rows.Select(r => r.Weight).ToArray();
+        var fields = schema.FeatureNames.Select(name =>
+        {
+            var numeric = Drivers.FieldStats.KindOf(schema, name) == Drivers.StatKind.Number;
+            var edges = numeric ? DecileEdges(rows.Select(r => ClaimValues.Numeric(schema, r.Values, name)).ToArray(), weights) : [];
+            var bins = DriftBins.For(schema, name, edges);
+            return bins with { Expected = Tally(bins, rows.Select(r => bins.BinOf(schema, r.Values)), weights) };
+        }).ToList();
+        var score = DriftBins.For(null, ScoreName, DecileEdges([.. scores], weights));
+        return new DriftBaseline(rows.Count, fields, score with { Expected = Tally(score, scores.Select(score.BinOf), weights) });
+    }
+
+    /// <summary>
+    /// The weighted k/10 quantiles (k = 1..9) of the present values: the smallest value whose cumulative weight
+    /// reaches k/10 of the total (with equal weights, Hyndman &amp; Fan 1996 definition 1). Repeated edges are
+    /// kept once, so a field with few distinct values gets fewer, wider bins.
+    /// </summary>
+    internal static IReadOnlyList<double> DecileEdges(double[] values, double[] weights)
+    {
+        var present = values.Select((v, i) => (Value: v, Weight: weights[i])).Where(p => !double.IsNaN(p.Value)).OrderBy(p => p.Value).ToArray();
+        var total = present.Sum(p => p.Weight);
+        var edges = new List<double>();
+        if (present.Length == 0 || !(total > 0)) return edges;
+        var (k, cumulative) = (1, 0.0);
+        foreach (var (value, weight) in present)
+        {
+            cumulative += weight;
+            while (k < Deciles && cumulative >= total * k / Deciles - 1e-12)
+            {
+                if (edges.Count == 0 || edges[^1] != value) edges.Add(value);
+                k++;
+            }
+        }
+        return edges;
+    }
+
+    private static double[] Tally(DriftBins bins, IEnumerable<int> binOfRow, double[] weights)
+    {
+        var sums = new double[bins.Count];
+        var r = 0;
+        foreach (var b in binOfRow) sums[b] += weights[r++];
+        return Psi.Shares(sums);
+    }
+}
