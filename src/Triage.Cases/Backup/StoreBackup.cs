@@ -3,6 +3,7 @@ using System.Text.Json;
 using Microsoft.Data.Sqlite;
 using Microsoft.EntityFrameworkCore;
 using Triage.Cases.Domain;
+using Triage.Cases.Export;
 using Triage.Cases.Hosting;
 using Triage.Cases.Store;
 
@@ -17,7 +18,7 @@ public sealed class BackupRefusedException(string message) : Exception(message);
 /// <summary>
 /// Backs up and restores the embedded store while the app keeps serving. A backup is one zip archive:
 /// a consistent copy of the SQLite file taken with <c>VACUUM INTO</c> (a read transaction, so writers
-/// only wait for it), the model files the registry points at, and a manifest. A restore checks the whole
+/// only wait for it), the model files the registry points at, the export pseudonym key, and a manifest. A restore checks the whole
 /// archive first, puts the model files in place, then copies the database into the live file with
 /// SQLite's online backup API, which takes the file's locks like any writer, so open connections see
 /// either the old store or the restored one, never a mix. PostgreSQL is backed up with its own tools.
@@ -53,6 +54,9 @@ public sealed class StoreBackup(TriageDbContext db, TriagePaths paths, TimeProvi
                     if (!File.Exists(source)) throw new BackupRefusedException($"Model file '{model}' named by the registry is missing from {paths.DataFolder}; the backup was not written.");
                     zip.CreateEntryFromFile(source, ModelEntry(model), CompressionLevel.Fastest);
                 }
+                // The pseudonym key too: without it, exports after a restore would give every claim a new pseudonym.
+                var key = Path.Combine(paths.DataFolder, Pseudonyms.KeyFileName);
+                if (File.Exists(key)) zip.CreateEntryFromFile(key, ModelEntry(Pseudonyms.KeyFileName), CompressionLevel.NoCompression);
                 await using var m = zip.CreateEntry(ManifestEntry).Open();
                 await JsonSerializer.SerializeAsync(m, manifest, cancellationToken: ct);
             }
@@ -96,6 +100,13 @@ public sealed class StoreBackup(TriageDbContext db, TriagePaths paths, TimeProvi
                         throw new BackupRefusedException($"The backup names model file '{model}' outside the data folder; nothing was restored.");
                     Directory.CreateDirectory(Path.GetDirectoryName(target)!);
                     source.ExtractToFile(target + ".restoring", overwrite: true);
+                    File.Move(target + ".restoring", target, overwrite: true);
+                }
+                if (zip.GetEntry(ModelEntry(Pseudonyms.KeyFileName)) is { } key)
+                {
+                    var target = Path.Combine(paths.DataFolder, Pseudonyms.KeyFileName);
+                    key.ExtractToFile(target + ".restoring", overwrite: true);
+                    if (!OperatingSystem.IsWindows()) File.SetUnixFileMode(target + ".restoring", UnixFileMode.UserRead | UnixFileMode.UserWrite);
                     File.Move(target + ".restoring", target, overwrite: true);
                 }
             }

@@ -25,6 +25,9 @@ public sealed class StoreBackupTests(IntakeFixture fixture) : IClassFixture<Inta
         using var writer = new Heartbeat(fixture.Store);
         var before = await fixture.FingerprintAsync();
         var archive = Archive("round-trip.zip");
+        var pseudonymKey = Path.Combine(DataFolder, Triage.Cases.Export.Pseudonyms.KeyFileName);
+        var keyBytes = Enumerable.Range(0, 32).Select(i => (byte)(i * 7 + 1)).ToArray();
+        await File.WriteAllBytesAsync(pseudonymKey, keyBytes);
 
         var taken = await Service().BackupAsync(archive, Admin);
 
@@ -37,6 +40,7 @@ public sealed class StoreBackupTests(IntakeFixture fixture) : IClassFixture<Inta
         }
         var modelFile = Path.Combine(DataFolder, Assert.Single(taken.ModelFiles));
         File.Delete(modelFile);
+        File.Delete(pseudonymKey);
         Assert.NotEqual(before, await fixture.FingerprintAsync());
 
         await Service().RestoreAsync(archive, Admin);
@@ -44,6 +48,7 @@ public sealed class StoreBackupTests(IntakeFixture fixture) : IClassFixture<Inta
 
         Assert.Equal(before, await fixture.FingerprintAsync());
         Assert.True(File.Exists(modelFile));
+        Assert.Equal(keyBytes, await File.ReadAllBytesAsync(pseudonymKey)); // exports keep their pseudonyms
         Assert.Equal("ok", await IntegrityAsync());
         Assert.Equal(1, await fixture.AuditCountAsync("store.restored"));
         await writer.WaitForBeatsAfterAsync(beatsAtRestore); // the other connection keeps working on the restored file
