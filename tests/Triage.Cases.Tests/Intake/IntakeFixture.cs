@@ -8,26 +8,43 @@ using Triage.Cases.Tests.Support;
 
 namespace Triage.Cases.Tests.Intake;
 
-/// <summary>A store after first start on the tiny seed, with a small model (20 trees) serving.</summary>
-public sealed class IntakeFixture : IAsyncLifetime
+/// <summary>A SQLite store after first start on the tiny seed, with a small model (20 trees) serving.</summary>
+public class IntakeFixture : IAsyncLifetime
 {
     public static readonly Actor Analyst = new("id-analyst", "ana.lyst", new HashSet<string> { Roles.Analyst });
 
-    public TestStore Store { get; private set; } = null!;
+    private TestStore? _store;
+
+    public virtual string Provider => "Sqlite";
+
+    /// <summary>The store; skips the calling test when it is PostgreSQL and no server is configured.</summary>
+    public TestStore Store
+    {
+        get
+        {
+            Skip.If(_store is null, TestStore.PostgresSkipReason);
+            return _store!;
+        }
+    }
 
     public async Task InitializeAsync()
     {
-        Store = TestStore.Create(extra: new()
+        // A fixture cannot skip; the tests skip when they ask for the store.
+        if (Provider == "Postgres" && TestStore.PostgresSkipReason is not null) return;
+        _store = TestStore.Create(Provider, extra: new()
         {
             ["Scoring:FastTree:NumberOfTrees"] = "20",
             ["Scoring:FastTree:NumberOfLeaves"] = "6",
             ["Demo:Enabled"] = "false",
         });
-        Store.WriteSeed(historyRows: 400, openRows: 30);
-        await Store.Host.Services.InitialiseStoreAsync();
+        _store.WriteSeed(historyRows: 400, openRows: 30);
+        await _store.Host.Services.InitialiseStoreAsync();
     }
 
-    public async Task DisposeAsync() => await Store.DisposeAsync();
+    public async Task DisposeAsync()
+    {
+        if (_store is not null) await _store.DisposeAsync();
+    }
 
     public async Task<ImportReport> ImportAsync(ImportSource source, Actor? by = null)
     {
@@ -61,4 +78,10 @@ public sealed class IntakeFixture : IAsyncLifetime
         await using var db = Store.NewContext();
         return await db.AuditEvents.CountAsync(a => a.What == what);
     }
+}
+
+/// <summary>The same on a throwaway PostgreSQL database (TRIAGE_TEST_POSTGRES); its tests skip without one.</summary>
+public sealed class PostgresIntakeFixture : IntakeFixture
+{
+    public override string Provider => "Postgres";
 }
