@@ -13,12 +13,12 @@ namespace Triage.Cases.Intake;
 /// </summary>
 internal sealed class ScoredClaimWriter(TriageDbContext db) : IDisposable
 {
-    private readonly RowInserter<Claim> _claims = new(db);
-    private readonly RowInserter<ClaimScore> _scores = new(db, nameof(ClaimScore.ClaimId));
-    private readonly RowInserter<Case> _cases = new(db, nameof(Case.ClaimId));
-    private readonly RowInserter<DriverSnapshot> _drivers = new(db, nameof(DriverSnapshot.CaseId));
-    private readonly RowInserter<CheckItem> _checks = new(db, nameof(CheckItem.CaseId));
-    private readonly RowInserter<AuditEvent> _audit = new(db, nameof(AuditEvent.CaseId));
+    private readonly RowInserter<Claim> _claims = new(db, returnsKey: true);
+    private readonly RowInserter<ClaimScore> _scores = new(db, returnsKey: false, nameof(ClaimScore.ClaimId));
+    private readonly RowInserter<Case> _cases = new(db, returnsKey: true, nameof(Case.ClaimId));
+    private readonly RowInserter<DriverSnapshot> _drivers = new(db, returnsKey: false, nameof(DriverSnapshot.CaseId));
+    private readonly RowInserter<CheckItem> _checks = new(db, returnsKey: false, nameof(CheckItem.CaseId));
+    private readonly RowInserter<AuditEvent> _audit = new(db, returnsKey: false, nameof(AuditEvent.CaseId));
 
     public async Task WriteAsync(Claim claim, ClaimScore score, Case? opened, CancellationToken ct)
     {
