@@ -52,16 +52,21 @@ public sealed class ClaimIntake(
     private async Task<ImportReport> RunAsync(ImportSource source, string version, ScoringModel model, Actor by,
         IProgress<ImportProgress>? progress, CancellationToken ct)
     {
-        var check = await CheckAsync(source, model.Schema, progress, ct);
+        var phases = new ImportClock();
+        var check = await phases.TimeAsync(ImportClock.Checking, () => CheckAsync(source, model.Schema, progress, ct));
         var now = clock.GetUtcNow().UtcDateTime;
         if (check.Errors.Total > 0)
         {
             db.AuditEvents.Add(new AuditEvent(by.UserName, "claims.rejected", Trim($"{source.Name}: {check.Errors.Total} error(s) in {check.Rows} row(s); first: {check.Errors.Listed[0]}"), now));
             await db.SaveChangesAsync(ct);
-            return new ImportReport(source.Name, check.Rows, 0, 0, 0, check.Errors.Total, check.Errors.Listed) { OverRowLimit = check.OverRowLimit };
+            return new ImportReport(source.Name, check.Rows, 0, 0, 0, check.Errors.Total, check.Errors.Listed)
+                { OverRowLimit = check.OverRowLimit, Timings = phases.Timings() };
         }
-        var (stored, queued) = await StoreAsync(source, model, version, check, by, now, progress, ct);
-        return new ImportReport(source.Name, check.Rows, stored, check.Duplicates.Count, queued, 0, []);
+        var (stored, queued) = await StoreAsync(source, model, version, check, by, now, phases, progress, ct);
+        var timings = phases.Timings();
+        log.LogInformation("Import of {Source} took {Total}: checking {Checking}, scoring and explaining {Scoring}, writing {Writing}",
+            source.Name, timings.Total, timings.Checking, timings.Scoring, timings.Writing);
+        return new ImportReport(source.Name, check.Rows, stored, check.Duplicates.Count, queued, 0, []) { Timings = timings };
     }
 
     private sealed record CheckResult(int Rows, ErrorList Errors, HashSet<string> Duplicates, bool OverRowLimit);
@@ -123,19 +128,58 @@ public sealed class ClaimIntake(
         pending.Clear();
     }
 
+    /// <summary>One new claim ready to write: its score and, when queued, the case its rules opened.</summary>
+    private sealed record Built(Claim Claim, ClaimScore Score, Case? Opened);
+
+    /// <remarks>
+    /// A pipeline on one transaction: while one batch is written (the store takes one writer), the next is
+    /// scored, explained and turned into cases on the other cores. At most three batches are in memory.
+    /// </remarks>
     private async Task<(int Stored, int Queued)> StoreAsync(ImportSource source, ScoringModel model, string version, CheckResult check,
-        Actor by, DateTime now, IProgress<ImportProgress>? progress, CancellationToken ct)
+        Actor by, DateTime now, ImportClock phases, IProgress<ImportProgress>? progress, CancellationToken ct)
     {
         var o = options.Value;
         var (threshold, dueDays) = (queue.Value.Threshold, queue.Value.DueDays);
         var playbook = await db.PlaybookRules.AsNoTracking().ToListAsync(ct);
         var toStore = Math.Max(1, check.Rows - check.Duplicates.Count);
         int stored = 0, queued = 0;
+
+        List<Built> Build(List<(Claim, IReadOnlyDictionary<string, string?>)> claims) =>
+            [.. CaseOpener.Score(model, claims, ct).Select(s =>
+            {
+                var selection = sampler.Decide(s.Explanation.Probability);
+                return new Built(s.Claim, ClaimScore.Record(s.Claim, s.Explanation, version, selection is not null, now),
+                    selection is not null ? CaseOpener.Open(s, version, playbook, now, dueDays, by, selection) : null);
+            })];
+
         await using var tx = await db.Database.BeginTransactionAsync(ct);
-        db.ChangeTracker.AutoDetectChangesEnabled = false;
+        using var writer = new ScoredClaimWriter(db);
+        async Task WriteAsync(Task<List<Built>> scoring)
+        {
+            var built = await scoring;
+            await phases.TimeAsync(ImportClock.Writing, async () =>
+            {
+                foreach (var b in built) await writer.WriteAsync(b.Claim, b.Score, b.Opened, ct);
+            });
+            stored += built.Count;
+            queued += built.Count(b => b.Opened is not null);
+            progress?.Report(new ImportProgress("Storing", Math.Min(1, (double)stored / toStore), stored));
+        }
+
+        var batch = new List<(Claim, IReadOnlyDictionary<string, string?>)>(o.BatchSize);
+        Task<List<Built>>? previous = null;
+        async Task HandOverAsync()
+        {
+            if (batch.Count == 0) return;
+            var claims = batch;
+            batch = new(o.BatchSize);
+            var scoring = Task.Run(() => phases.Time(ImportClock.Scoring, () => Build(claims)), ct);
+            if (previous is not null) await WriteAsync(previous);
+            previous = scoring;
+        }
+
         try
         {
-            var batch = new List<(Claim, IReadOnlyDictionary<string, string?>)>(o.BatchSize);
             await using (var stream = source.Open())
                 await foreach (var row in Read(source, stream, model.Schema, ct))
                 {
@@ -144,51 +188,29 @@ public sealed class ClaimIntake(
                         throw new InvalidDataException($"{source.Name} changed while it was being imported (row {row.Row}); nothing was stored.");
                     if (check.Duplicates.Contains(values[model.Schema.Roles.ClaimNumber]!)) continue;
                     batch.Add((SeedClaims.ToClaim(model.Schema, values), values));
-                    if (batch.Count < o.BatchSize) continue;
-                    (stored, queued) = Add(await SaveBatchAsync(batch, model, version, playbook, dueDays, by, now, ct), stored, queued);
-                    progress?.Report(new ImportProgress("Storing", (double)stored / toStore, stored));
+                    if (batch.Count >= o.BatchSize) await HandOverAsync();
                 }
-            (stored, queued) = Add(await SaveBatchAsync(batch, model, version, playbook, dueDays, by, now, ct), stored, queued);
+            await HandOverAsync();
+            if (previous is not null) await WriteAsync(previous);
+            previous = null;
+        }
+        finally
+        {
+            // A failed write leaves the next batch scoring: let it finish before the transaction goes.
+            if (previous is not null) await previous.ContinueWith(_ => { }, TaskScheduler.Default);
+        }
+        await phases.TimeAsync(ImportClock.Writing, async () =>
+        {
             db.AuditEvents.Add(new AuditEvent(by.UserName, "claims.imported",
                 $"{source.Name}: {check.Rows} row(s), {stored} stored, {queued} queued (at or above {threshold:0.00} or drawn for the audit sample) by model {version}, {check.Duplicates.Count} duplicate(s)", now));
             await db.SaveChangesAsync(ct);
             await tx.CommitAsync(ct);
-        }
-        finally
-        {
-            db.ChangeTracker.AutoDetectChangesEnabled = true;
-            db.ChangeTracker.Clear();
-        }
+        });
+        db.ChangeTracker.Clear();
         progress?.Report(new ImportProgress("Storing", 1, stored));
         log.LogInformation("Imported {Source}: {Stored} stored, {Queued} queued, {Duplicates} duplicates", source.Name, stored, queued, check.Duplicates.Count);
         return (stored, queued);
     }
-
-    private async Task<(int Stored, int Queued)> SaveBatchAsync(List<(Claim, IReadOnlyDictionary<string, string?>)> batch, ScoringModel model,
-        string version, IReadOnlyList<PlaybookRule> playbook, int dueDays, Actor by, DateTime now, CancellationToken ct)
-    {
-        if (batch.Count == 0) return (0, 0);
-        var queued = 0;
-        foreach (var s in CaseOpener.Score(model, batch, ct))
-        {
-            var selection = sampler.Decide(s.Explanation.Probability);
-            var opens = selection is not null;
-            if (opens)
-            {
-                db.Cases.Add(CaseOpener.Open(s, version, playbook, now, dueDays, by, selection));
-                queued++;
-            }
-            else db.Claims.Add(s.Claim);
-            db.Add(ClaimScore.Record(s.Claim, s.Explanation, version, opens, now));
-        }
-        await db.SaveChangesAsync(ct);
-        db.ChangeTracker.Clear();
-        var count = batch.Count;
-        batch.Clear();
-        return (count, queued);
-    }
-
-    private static (int, int) Add((int Stored, int Queued) batch, int stored, int queued) => (stored + batch.Stored, queued + batch.Queued);
 
     private IAsyncEnumerable<IncomingRow> Read(ImportSource source, Stream stream, ClaimSchema schema, CancellationToken ct) =>
         source.Format == ImportFormat.Json

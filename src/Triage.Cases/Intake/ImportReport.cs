@@ -30,11 +30,18 @@ public sealed record ImportReport(
     /// <summary>Rejected because the input has more rows than the source allows.</summary>
     public bool OverRowLimit { get; init; }
     public int ScoredOnly => Stored - Queued;
+    /// <summary>Where the time went, for the log and the bench.</summary>
+    public ImportTimings? Timings { get; init; }
 
     public string Summary => Rejected
         ? $"{Source}: rejected, nothing stored; {ErrorCount} error(s) in {Rows} row(s)" + (ErrorCount > Errors.Count ? $", the first {Errors.Count} listed" : "") + "."
         : $"{Source}: {Rows} row(s); {Stored} new claim(s) stored and scored, {Queued} queued as cases, {Duplicates} duplicate(s) already stored.";
 }
+
+/// <param name="Checking">The first pass: reading, checking every row, comparing with the store.</param>
+/// <param name="Scoring">Scoring, explaining and opening cases, in the second pass (beside writing, on the other cores).</param>
+/// <param name="Writing">Writing rows and committing, in the second pass.</param>
+public sealed record ImportTimings(TimeSpan Total, TimeSpan Checking, TimeSpan Scoring, TimeSpan Writing);
 
 public enum ImportFormat { Csv, Json }
 

@@ -8,15 +8,29 @@ using Triage.Cases.Tests.Support;
 
 namespace Triage.Cases.Tests.Intake;
 
-/// <summary>A store after first start on the tiny seed, with a small model (20 trees) serving.</summary>
+/// <summary>A SQLite store after first start on the tiny seed, with a small model (20 trees) serving.</summary>
 public class IntakeFixture : IAsyncLifetime
 {
     public static readonly Actor Analyst = new("id-analyst", "ana.lyst", new HashSet<string> { Roles.Analyst });
 
-    public TestStore Store { get; private set; } = null!;
+    private TestStore? _store;
+
+    public virtual string Provider => "Sqlite";
+
+    /// <summary>The store; skips the calling test when it is PostgreSQL and no server is configured.</summary>
+    public TestStore Store
+    {
+        get
+        {
+            Skip.If(_store is null, TestStore.PostgresSkipReason);
+            return _store!;
+        }
+    }
 
     public async Task InitializeAsync()
     {
+        // A fixture cannot skip; the tests skip when they ask for the store.
+        if (Provider == "Postgres" && TestStore.PostgresSkipReason is not null) return;
         var settings = new Dictionary<string, string?>
         {
             ["Scoring:FastTree:NumberOfTrees"] = "20",
@@ -24,15 +38,18 @@ public class IntakeFixture : IAsyncLifetime
             ["Demo:Enabled"] = "false",
         };
         foreach (var (k, v) in ExtraSettings) settings[k] = v;
-        Store = TestStore.Create(extra: settings);
-        Store.WriteSeed(historyRows: 400, openRows: 30);
-        await Store.Host.Services.InitialiseStoreAsync();
+        _store = TestStore.Create(Provider, extra: settings);
+        _store.WriteSeed(historyRows: 400, openRows: 30);
+        await _store.Host.Services.InitialiseStoreAsync();
     }
 
     /// <summary>Settings a derived fixture changes on top of the defaults above.</summary>
     protected virtual IReadOnlyDictionary<string, string?> ExtraSettings => new Dictionary<string, string?>();
 
-    public async Task DisposeAsync() => await Store.DisposeAsync();
+    public async Task DisposeAsync()
+    {
+        if (_store is not null) await _store.DisposeAsync();
+    }
 
     public async Task<ImportReport> ImportAsync(ImportSource source, Actor? by = null)
     {
@@ -66,4 +83,10 @@ public class IntakeFixture : IAsyncLifetime
         await using var db = Store.NewContext();
         return await db.AuditEvents.CountAsync(a => a.What == what);
     }
+}
+
+/// <summary>The same on a throwaway PostgreSQL database (TRIAGE_TEST_POSTGRES); its tests skip without one.</summary>
+public sealed class PostgresIntakeFixture : IntakeFixture
+{
+    public override string Provider => "Postgres";
 }

@@ -5,11 +5,16 @@ using Triage.Scoring.Models;
 
 namespace Triage.Cases.Tests.Intake;
 
-public sealed class IntakeTests(IntakeFixture fixture) : IClassFixture<IntakeFixture>
+public sealed class SqliteIntakeTests(IntakeFixture fixture) : IntakeTests(fixture), IClassFixture<IntakeFixture>;
+
+public sealed class PostgresIntakeTests(PostgresIntakeFixture fixture) : IntakeTests(fixture), IClassFixture<PostgresIntakeFixture>;
+
+/// <summary>Intake on each store provider (the PostgreSQL run skips without TRIAGE_TEST_POSTGRES).</summary>
+public abstract class IntakeTests(IntakeFixture fixture)
 {
     private const double Threshold = 0.3; // TestStore's Queue:Threshold
 
-    [Fact]
+    [SkippableFact]
     public async Task Stores_scores_and_queues_every_claim_of_a_valid_file()
     {
         var rows = IntakeRows.Many(120, "OK");
@@ -39,7 +44,7 @@ public sealed class IntakeTests(IntakeFixture fixture) : IClassFixture<IntakeFix
         Assert.True(await fixture.AuditCountAsync("claims.imported") >= 1);
     }
 
-    [Fact]
+    [SkippableFact]
     public async Task Sending_the_same_claims_again_changes_nothing_and_reports_duplicates()
     {
         var rows = IntakeRows.Many(15, "DUP");
@@ -54,7 +59,7 @@ public sealed class IntakeTests(IntakeFixture fixture) : IClassFixture<IntakeFix
         Assert.Equal(before, await fixture.FingerprintAsync());
     }
 
-    [Fact]
+    [SkippableFact]
     public async Task Reads_bom_semicolons_quotes_and_json()
     {
         var rows = IntakeRows.Many(3, "FMT");
@@ -75,7 +80,7 @@ public sealed class IntakeTests(IntakeFixture fixture) : IClassFixture<IntakeFix
         Assert.Equal("yes", (await db.Claims.AsNoTracking().SingleAsync(c => c.ClaimNumber == "JS-000003")).FieldValues()["police_report"]);
     }
 
-    [Fact]
+    [SkippableFact]
     public async Task A_claim_sent_twice_at_once_is_stored_once()
     {
         var body = IntakeRows.Csv(IntakeRows.Many(40, "PAR"));
@@ -89,7 +94,7 @@ public sealed class IntakeTests(IntakeFixture fixture) : IClassFixture<IntakeFix
         Assert.Equal(40, await db.ClaimScores.CountAsync(s => s.Claim!.ClaimNumber.StartsWith("PAR-")));
     }
 
-    [Fact]
+    [SkippableFact]
     public async Task Files_longer_than_one_batch_are_stored_whole()
     {
         var report = await fixture.ImportCsvAsync(IntakeRows.Csv(IntakeRows.Many(2_300, "BIG")));
@@ -98,7 +103,7 @@ public sealed class IntakeTests(IntakeFixture fixture) : IClassFixture<IntakeFix
         Assert.Equal(2_300, await db.ClaimScores.CountAsync(s => s.Claim!.ClaimNumber.StartsWith("BIG-")));
     }
 
-    [Fact]
+    [SkippableFact]
     public async Task Every_error_is_counted_but_the_list_stops_at_the_cap()
     {
         var rows = IntakeRows.Many(300, "CAP");
@@ -109,7 +114,7 @@ public sealed class IntakeTests(IntakeFixture fixture) : IClassFixture<IntakeFix
         Assert.Contains("the first 200 listed", report.Summary);
     }
 
-    [Fact]
+    [SkippableFact]
     public async Task Only_analysts_and_admins_may_import()
     {
         var before = await fixture.FingerprintAsync();

@@ -60,6 +60,9 @@ public sealed class ImportCommandTests : IDisposable
         var first = Run("import", file, "--delimiter", ";");
         Assert.True(first.Exit == 0, first.Err);
         Assert.Contains("25 new claim(s) stored and scored", first.Out);
+        // Not a terminal here, so progress comes as lines: each stage from its start to 100%.
+        Assert.Contains("Checking claims.csv: 100% (25 rows)", first.Err);
+        Assert.Contains("Storing claims.csv: 100% (25 rows)", first.Err);
 
         var again = Run("import", file, "--delimiter", ";");
         Assert.Equal(0, again.Exit);

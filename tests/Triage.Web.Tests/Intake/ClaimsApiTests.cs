@@ -6,6 +6,7 @@ using System.Text.Json;
 using Microsoft.AspNetCore.Hosting;
 using Microsoft.AspNetCore.Mvc.Testing;
 using Microsoft.Extensions.Configuration;
+using Microsoft.EntityFrameworkCore;
 using Microsoft.Extensions.DependencyInjection;
 using Triage.Cases.ApiKeys;
 using Triage.Cases.Domain;
@@ -110,10 +111,17 @@ public sealed class ClaimsApiTests(TriageWebFactory factory) : IClassFixture<Tri
         })));
         var key = await NewKeyAsync(small);
         var client = small.CreateClient();
+        var before = await ClaimCountAsync(small);
 
         var big = await client.SendAsync(Post(IntakeRows.Csv(IntakeRows.Many(40, "HUGE")), key.Secret));
         var tooBig = await ProblemAsync(big, HttpStatusCode.RequestEntityTooLarge);
         Assert.Contains("at most 4,096 bytes", tooBig.GetProperty("detail").GetString());
+        // Sent without a length up front, the body is counted as it arrives and refused the same way.
+        var chunked = Post(IntakeRows.Csv(IntakeRows.Many(40, "HUGE")), key.Secret);
+        chunked.Headers.TransferEncodingChunked = true;
+        chunked.Content = new StreamContent(new MemoryStream(Encoding.UTF8.GetBytes(IntakeRows.Csv(IntakeRows.Many(40, "HUGE")))))
+            { Headers = { ContentType = new MediaTypeHeaderValue("text/csv") } };
+        await ProblemAsync(await client.SendAsync(chunked), HttpStatusCode.RequestEntityTooLarge);
 
         var rows = await client.SendAsync(Post(IntakeRows.Csv(IntakeRows.Many(4, "ROWS")), key.Secret));
         var tooMany = await ProblemAsync(rows, HttpStatusCode.RequestEntityTooLarge);
@@ -122,6 +130,25 @@ public sealed class ClaimsApiTests(TriageWebFactory factory) : IClassFixture<Tri
 
         await ProblemAsync(await client.SendAsync(Post("a,b", key.Secret, "application/xml")), HttpStatusCode.UnsupportedMediaType);
         await ProblemAsync(await client.SendAsync(Post("a,b", key.Secret, query: "?delimiter=ab")), HttpStatusCode.BadRequest);
+        Assert.Equal(before, await ClaimCountAsync(small));
+    }
+
+    [Fact]
+    public async Task A_semicolon_file_goes_in_with_the_delimiter_named()
+    {
+        var key = await NewKeyAsync();
+        var csv = IntakeRows.Csv(IntakeRows.Many(3, "SEMI"), ';');
+        var refused = await ProblemAsync(await factory.CreateClient().SendAsync(Post(csv, key.Secret)), HttpStatusCode.UnprocessableEntity);
+        Assert.Contains("';' as delimiter", refused.GetProperty("errors")[0].GetProperty("problem").GetString());
+        var taken = await factory.CreateClient().SendAsync(Post(csv, key.Secret, query: "?delimiter=%3B"));
+        Assert.Equal(HttpStatusCode.OK, taken.StatusCode);
+        Assert.Equal(3, (await taken.Content.ReadFromJsonAsync<JsonElement>()).GetProperty("stored").GetInt32());
+    }
+
+    private static async Task<int> ClaimCountAsync(WebApplicationFactory<Program> app)
+    {
+        await using var scope = app.Services.CreateAsyncScope();
+        return await scope.ServiceProvider.GetRequiredService<Triage.Cases.Store.TriageDbContext>().Claims.CountAsync();
     }
 
     [Fact]
