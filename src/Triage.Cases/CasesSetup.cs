@@ -13,6 +13,7 @@ using Triage.Cases.Domain;
 using Triage.Cases.FirstStart;
 using Triage.Cases.Hosting;
 using Triage.Cases.Intake;
+using Triage.Cases.Models;
 using Triage.Cases.Insights;
 using Triage.Cases.Options;
 using Triage.Cases.Queue;
@@ -73,6 +74,12 @@ public static class CasesSetup
         s.AddScoped<ReassignService>();
         s.AddScoped<InsightsService>();
         s.AddScoped<HistoricCases>();
+        s.AddSingleton<RetrainState>();
+        s.AddSingleton<RetrainQueue>();
+        s.AddScoped<RetrainRunner>();
+        s.AddScoped<RetrainService>();
+        s.AddScoped<ModelRegistry>();
+        s.AddHostedService<RetrainWorker>();
         return b;
     }
 

@@ -18,7 +18,7 @@ public sealed class ModelTrainer(IOptions<ScoringOptions> options)
     public ScoringModel Train(ClaimSchema schema, IReadOnlyList<LabelledClaim> rows, TrainingRequest request,
         IProgress<TrainingProgress>? progress = null, CancellationToken ct = default)
     {
-        var o = options.Value;
+        var o = request.Settings ?? options.Value;
         var kind = request.Trainer ?? o.Trainer;
         var features = new ClaimFeatures(schema);
         if (rows.Count == 0) throw new InvalidDataException("There are no labelled claims to train on.");
