@@ -45,7 +45,11 @@ public class RetrainServiceTests
         Assert.Equal(closed.Count(o => o == VerdictOutcome.Inconclusive), set.InconclusiveLeftOut);
         Assert.True(set.InconclusiveLeftOut > 0, "the demo history turns some verdicts inconclusive");
         Assert.Equal(set.FromHistory + set.FromVerdicts, set.Rows.Count);
-        Assert.All(set.Rows, r => Assert.Equal(1.0, r.Weight));
+        // Audit-sample cases weigh 1/π (Horvitz & Thompson 1952); everything else 1.
+        var auditShares = await db.Cases.Where(c => !c.IsOpen && c.IsAuditSample && c.Verdicts.Any(v => v.SupersededAt == null && v.Outcome != VerdictOutcome.Inconclusive))
+            .Select(c => c.SelectionProbability).ToListAsync();
+        Assert.Equal(auditShares.Count, set.AuditSample);
+        Assert.Equal(auditShares.Select(p => 1 / p).Order(), set.Rows.Where(r => r.Weight != 1.0).Select(r => r.Weight).Order());
     }
 
     [Fact]
