@@ -7,5 +7,7 @@ root.Subcommands.Add(Triage.Cli.Explain.ExplainCommand.Create());
 root.Subcommands.Add(Triage.Cli.Users.UsersCommand.Create());
 root.Subcommands.Add(Triage.Cli.Import.ImportCommand.Create());
 root.Subcommands.Add(Triage.Cli.ApiKeys.ApiKeysCommand.Create());
+root.Subcommands.Add(Triage.Cli.Models.ModelsCommand.Retrain());
+root.Subcommands.Add(Triage.Cli.Models.ModelsCommand.Models());
 
 return await root.Parse(args).InvokeAsync();
