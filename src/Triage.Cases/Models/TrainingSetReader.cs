@@ -28,12 +28,11 @@ public sealed class TrainingSetReader(TriageDbContext db)
             .Where(c => c.Outcome == VerdictOutcome.ConfirmedFraud || c.Outcome == VerdictOutcome.NotFraud)
             .Where(c => !db.Cases.Any(k => k.ClaimId == c.Id))
             .Select(c => new { c.FieldValuesJson, c.Outcome });
-        var fromHistory = 0;
-        await foreach (var c in history.AsAsyncEnumerable().WithCancellation(ct))
-        {
-            rows.Add(new LabelledClaim(Values(c.FieldValuesJson, null, fields), c.Outcome == VerdictOutcome.ConfirmedFraud));
-            fromHistory++;
-        }
+        var settled = await history.ToListAsync(ct);
+        // Parsing the JSON is most of the work: spread it over the cores, keeping the order.
+        rows.AddRange(settled.AsParallel().AsOrdered().WithCancellation(ct)
+            .Select(c => new LabelledClaim(Values(c.FieldValuesJson, null, fields), c.Outcome == VerdictOutcome.ConfirmedFraud)));
+        var fromHistory = settled.Count;
 
         var closed = db.Cases.AsNoTracking()
             .Where(c => !c.IsOpen)

@@ -36,6 +36,12 @@ public static class ModelComparison
     /// <summary>Points kept per ROC curve: enough to draw, small enough to store with the version.</summary>
     public const int RocPointsKept = 120;
 
+    /// <summary>
+    /// Importance is averaged over at most this many holdout rows, evenly spaced (common practice for
+    /// global SHAP importance: the mean of |contribution| settles long before every row is explained).
+    /// </summary>
+    public const int ImportanceRows = 2_000;
+
     public static ComparisonResult Compare(ScoringModel? champion, ScoringModel challenger, IReadOnlyList<LabelledClaim> holdout, int k,
         DateOnly? holdoutFrom, CancellationToken ct = default)
     {
@@ -58,16 +64,21 @@ public static class ModelComparison
     private static Scorecard Score(ScoringModel model, IReadOnlyList<LabelledClaim> rows, List<bool> y, int k, CancellationToken ct)
     {
         var p = new double[rows.Count];
-        var sums = new double[model.Fields.Count];
+        var options = new ParallelOptions { CancellationToken = ct };
+        Parallel.For(0, rows.Count, options, i => p[i] = model.Probability(rows[i].Values));
+
+        var sample = Enumerable.Range(0, Math.Min(rows.Count, ImportanceRows)).Select(j => (int)((long)j * rows.Count / Math.Min(rows.Count, ImportanceRows))).ToArray();
+        var width = model.Fields.Count;
+        var sums = new double[width];
         var gate = new object();
-        Parallel.For(0, rows.Count, new ParallelOptions { CancellationToken = ct }, () => new double[model.Fields.Count * 2], (i, _, local) =>
+        Parallel.For(0, sample.Length, options, () => new double[width * 2], (j, _, local) =>
         {
-            var byField = local.AsSpan(model.Fields.Count);
-            p[i] = ScoringModel.Sigmoid(model.ExplainFields(rows[i].Values, byField));
-            for (var f = 0; f < model.Fields.Count; f++) local[f] += Math.Abs(byField[f]);
+            var byField = local.AsSpan(width);
+            model.ExplainFields(rows[sample[j]].Values, byField);
+            for (var f = 0; f < width; f++) local[f] += Math.Abs(byField[f]);
             return local;
-        }, local => { lock (gate) for (var f = 0; f < sums.Length; f++) sums[f] += local[f]; });
-        var n = Math.Max(rows.Count, 1);
+        }, local => { lock (gate) for (var f = 0; f < width; f++) sums[f] += local[f]; });
+        var n = Math.Max(sample.Length, 1);
         return new Scorecard(model.Metadata.Version,
             BinaryMetrics.RocAuc(p, y), BinaryMetrics.AveragePrecision(p, y), BinaryMetrics.PrecisionAtK(p, y, k), BinaryMetrics.Brier(p, y),
             Calibration.ByQuantile(p, y), RocCurve.Thin(RocCurve.Points(p, y), RocPointsKept),
