@@ -2,6 +2,7 @@ using Triage.Bench.Explain;
 using Triage.Bench.Intake;
 using Triage.Bench.Load;
 using Triage.Bench.Queue;
+using Triage.Bench.Retrain;
 
 // Each benchmark lives in its own folder; add a case here for a new one.
 var benchmarks = new Dictionary<string, Func<string[], Task<int>>>
@@ -10,6 +11,7 @@ var benchmarks = new Dictionary<string, Func<string[], Task<int>>>
     ["queue"] = async rest => { await QueueBenchmark.RunAsync(rest); return 0; },
     ["intake"] = IntakeBenchmark.RunAsync,
     ["load"] = LoadBenchmark.RunAsync,
+    ["retrain"] = RetrainBenchmark.RunAsync,
 };
 
 if (args.Length == 0 || !benchmarks.TryGetValue(args[0], out var run))

@@ -16,6 +16,7 @@ using Triage.Cases.Export;
 using Triage.Cases.FirstStart;
 using Triage.Cases.Hosting;
 using Triage.Cases.Intake;
+using Triage.Cases.Models;
 using Triage.Cases.Insights;
 using Triage.Cases.Options;
 using Triage.Cases.Queue;
@@ -81,6 +82,12 @@ public static class CasesSetup
         s.AddScoped<DriftService>();
         s.AddScoped<OutcomeExportService>();
         s.AddSingleton<Pseudonyms>();
+        s.AddSingleton<RetrainState>();
+        s.AddSingleton<RetrainQueue>();
+        s.AddScoped<RetrainRunner>();
+        s.AddScoped<RetrainService>();
+        s.AddScoped<ModelRegistry>();
+        s.AddHostedService<RetrainWorker>();
         return b;
     }
 

@@ -9,5 +9,7 @@ root.Subcommands.Add(Triage.Cli.Import.ImportCommand.Create());
 root.Subcommands.Add(Triage.Cli.ApiKeys.ApiKeysCommand.Create());
 foreach (var c in Triage.Cli.Backup.BackupCommand.Create()) root.Subcommands.Add(c);
 root.Subcommands.Add(Triage.Cli.Export.ExportCommand.Create());
+root.Subcommands.Add(Triage.Cli.Models.ModelsCommand.Retrain());
+root.Subcommands.Add(Triage.Cli.Models.ModelsCommand.Models());
 
 return await root.Parse(args).InvokeAsync();

@@ -136,11 +136,11 @@ public sealed class DomainRulesTests
             new Triage.Scoring.Models.HoldoutMetrics(0.8, 0.4, 0.1, 0.3), "olu");
         var a = ModelVersion.Register(meta, "models/a.model");
         var b = ModelVersion.Register(meta with { Version = "b" }, "models/b.model");
-        a.Promote(null, Actor.System, Now);
-        b.Promote(a, Actor.System, Now);
+        a.Promote(null, Actor.System, Now, "first");
+        b.Promote(a, Actor.System, Now, "better");
         Assert.False(a.IsServing);
         Assert.True(b.IsServing);
-        Assert.Throws<DomainRuleException>(() => b.Promote(null, Actor.System, Now));
+        Assert.Throws<DomainRuleException>(() => b.Promote(null, Actor.System, Now, "again"));
     }
 
     private Case InReview()

@@ -56,6 +56,8 @@ public sealed class Case
     public List<Verdict> Verdicts { get; private set; } = [];
     public List<Assignment> Assignments { get; private set; } = [];
     public List<AuditEvent> Audit { get; private set; } = [];
+    /// <summary>Driver snapshots of earlier models, replaced when the case was re-scored.</summary>
+    public List<SupersededDriver> SupersededDrivers { get; private set; } = [];
 
     public Verdict? CurrentVerdict => Verdicts.SingleOrDefault(v => v.IsCurrent);
 
@@ -184,6 +186,32 @@ public sealed class Case
         Verdicts.Add(new Verdict(Id, outcome, reason.Trim(), note, amountSaved, by.UserName, at, amends: current.Id));
         RequireClaim().Settle(outcome, at);
         Record(by, "verdict.amended", $"{current.Outcome} → {outcome}", at);
+    }
+
+    /// <summary>
+    /// Re-scores an open case with a newly serving model: score and drivers are replaced, the old driver
+    /// snapshot is kept in <see cref="SupersededDrivers"/>. Checks and work done stay as they are.
+    /// </summary>
+    public void Rescore(Explanation explanation, string modelVersion, IReadOnlyDictionary<string, string?> scoredValues, Actor by, DateTime at)
+    {
+        RefuseWhenClosed("re-scored");
+        if (modelVersion == ModelVersion) throw new DomainRuleException($"Case {ClaimNumber} is already scored by model {modelVersion}.");
+        at = Claim.Utc(at);
+        SupersededDrivers.AddRange(Drivers.Select(d => new SupersededDriver(d, ModelVersion, at)));
+        Drivers.Clear();
+        Drivers.AddRange(explanation.Drivers.Select((d, i) => new DriverSnapshot(i + 1, d.Field, d.DisplayName, d.ValueText, d.Contribution, d.EffectPoints, d.Comparison)));
+        var before = RiskScore;
+        var previous = ModelVersion;
+        Probability = explanation.Probability;
+        RiskScore = (int)Math.Round(explanation.Probability * 100, MidpointRounding.AwayFromZero);
+        LogOdds = explanation.LogOdds;
+        BaseLogOdds = explanation.BaseValue;
+        ModelVersion = modelVersion;
+        ScoredValuesJson = JsonSerializer.Serialize(scoredValues);
+        var raising = Drivers.Where(d => d.Raises).OrderBy(d => d.Rank).Select(d => d.DisplayName).ToList();
+        TopDriver1 = raising.ElementAtOrDefault(0);
+        TopDriver2 = raising.ElementAtOrDefault(1);
+        Record(by, "case.rescored", $"risk {before} by model {previous} → {RiskScore} by model {modelVersion}", at);
     }
 
     private void CheckVerdict(VerdictOutcome outcome, string reason, double? amountSaved)

@@ -163,7 +163,7 @@ public sealed class StoreInitialiser(
     {
         var version = ModelVersion.Register(model.Metadata, Path.GetRelativePath(paths.DataFolder, file));
         var serving = await db.ModelVersions.SingleOrDefaultAsync(m => m.IsServing, ct);
-        version.Promote(serving, Actor.System, now);
+        version.Promote(serving, Actor.System, now, "First model, trained on the seed history at first start");
         db.AuditEvents.Add(new AuditEvent(Actor.System.UserName, "model.promoted", $"{version.Version} ({version.Trainer})", now));
         return version;
     }

@@ -16,17 +16,25 @@ public sealed class ServingModels(TriagePaths paths)
     {
         var serving = await db.ModelVersions.AsNoTracking().SingleOrDefaultAsync(m => m.IsServing, ct)
             ?? throw new IntakeUnavailableException("No model is serving, so arriving claims cannot be scored; train and promote a model first.");
-        var path = Path.Combine(paths.DataFolder, serving.FilePath);
-        // PublicationOnly: a failed load is not cached, so a restored file is picked up on the next call.
-        var model = _loaded.GetOrAdd(path, p => new Lazy<ScoringModel>(() => ScoringModel.Load(p), LazyThreadSafetyMode.PublicationOnly));
         try
         {
-            return (serving, model.Value);
+            return (serving, Load(serving));
         }
         catch (Exception e) when (e is IOException or InvalidDataException)
         {
-            throw new IntakeUnavailableException($"The serving model {serving.Version} cannot be read from '{path}': {e.Message}");
+            throw new IntakeUnavailableException($"The serving model {serving.Version} cannot be read from '{Path.Combine(paths.DataFolder, serving.FilePath)}': {e.Message}");
         }
+    }
+
+    /// <summary>
+    /// Loads a version's file (once; later calls share it). Promotion calls this before switching, so the
+    /// first request after the switch finds the whole model already in memory.
+    /// </summary>
+    public ScoringModel Load(ModelVersion version)
+    {
+        var path = Path.Combine(paths.DataFolder, version.FilePath);
+        // PublicationOnly: a failed load is not cached, so a restored file is picked up on the next call.
+        return _loaded.GetOrAdd(path, p => new Lazy<ScoringModel>(() => ScoringModel.Load(p), LazyThreadSafetyMode.PublicationOnly)).Value;
     }
 }
 

@@ -3,6 +3,7 @@ using Microsoft.EntityFrameworkCore;
 using Triage.Cases.ApiKeys;
 using Triage.Cases.Domain;
 using Triage.Cases.Intake;
+using Triage.Cases.Models;
 
 namespace Triage.Cases.Store;
 
@@ -19,6 +20,8 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
     public DbSet<Verdict> Verdicts => Set<Verdict>();
     public DbSet<AuditEvent> AuditEvents => Set<AuditEvent>();
     public DbSet<ModelVersion> ModelVersions => Set<ModelVersion>();
+    public DbSet<ModelChange> ModelChanges => Set<ModelChange>();
+    public DbSet<SupersededDriver> SupersededDrivers => Set<SupersededDriver>();
     public DbSet<PlaybookRule> PlaybookRules => Set<PlaybookRule>();
     public DbSet<ClaimScore> ClaimScores => Set<ClaimScore>();
     public DbSet<ApiKey> ApiKeys => Set<ApiKey>();
@@ -32,6 +35,9 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
         base.OnModelCreating(b);
         b.ApplyConfiguration(new ClaimScoreConfiguration());
         b.ApplyConfiguration(new ApiKeyConfiguration());
+        b.ApplyConfiguration(new ModelVersionConfiguration());
+        b.ApplyConfiguration(new ModelChangeConfiguration());
+        b.ApplyConfiguration(new SupersededDriverConfiguration());
 
         b.Entity<TriageUser>(u =>
         {
@@ -100,14 +106,6 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
             a.HasOne<Case>().WithMany(x => x.Audit).HasForeignKey(x => x.CaseId);
             a.HasIndex(x => x.At);
             a.Property(x => x.What).HasMaxLength(64);
-        });
-        b.Entity<ModelVersion>(m =>
-        {
-            m.HasIndex(x => x.Version).IsUnique();
-            // The database itself refuses a second serving model.
-            m.HasIndex(x => x.IsServing).IsUnique().HasFilter("\"IsServing\"");
-            m.Property(x => x.Version).HasMaxLength(64);
-            m.Property(x => x.Trainer).HasMaxLength(32);
         });
         b.Entity<PlaybookRule>(r =>
         {

@@ -48,6 +48,18 @@ public static class BinaryMetrics
         return ap;
     }
 
+    /// <summary>
+    /// Share of positives among the k highest-scored rows (all rows when k exceeds them). Ties at the cut
+    /// are broken by input order, so the figure is one the team could actually have worked. NaN when k &lt; 1.
+    /// </summary>
+    public static double PrecisionAtK(IReadOnlyList<double> p, IReadOnlyList<bool> y, int k)
+    {
+        if (k < 1 || p.Count == 0) return double.NaN;
+        var top = Enumerable.Range(0, p.Count).OrderByDescending(i => p[i]).ThenBy(i => i).Take(k).ToList();
+        return top.Count(i => y[i]) / (double)top.Count;
+    }
+
+    /// <summary>Mean squared difference between probability and outcome (Brier 1950).</summary>
     public static double Brier(IReadOnlyList<double> p, IReadOnlyList<bool> y) =>
         p.Count == 0 ? double.NaN : p.Select((v, i) => Math.Pow(v - (y[i] ? 1 : 0), 2)).Average();
 

@@ -4,7 +4,7 @@ using Triage.Scoring.Schema;
 namespace Triage.Scoring.Training;
 
 /// <summary>Holds out the claims reported in the last N months before the latest report date.</summary>
-internal static class TimeSplit
+public static class TimeSplit
 {
     public static (List<int> Train, List<int> Holdout) Split(ClaimSchema schema, IReadOnlyList<LabelledClaim> rows, int holdoutMonths)
     {

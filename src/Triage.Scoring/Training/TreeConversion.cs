@@ -13,7 +13,14 @@ internal static class TreeConversion
     public static TreeEnsemble ToLogOdds<T>(Microsoft.ML.Trainers.FastTree.TreeEnsemble<T> ensemble, double scoreScale, double slope, double offset,
         IReadOnlyList<double[]> trainX, IReadOnlyList<double> weights, int featureCount) where T : MlTree
     {
-        var trees = ensemble.Trees.Select((t, i) => Convert(t, i, trainX, weights)).ToList();
+        // Trees are independent: covers are counted for several at once.
+        List<RegressionTree> trees;
+        try { trees = ensemble.Trees.Select((t, i) => (t, i)).AsParallel().AsOrdered().Select(p => Convert(p.t, p.i, trainX, weights)).ToList(); }
+        catch (AggregateException e) when (e.InnerExceptions.Count == 1)
+        {
+            System.Runtime.ExceptionServices.ExceptionDispatchInfo.Throw(e.InnerExceptions[0]);
+            throw;
+        }
         var factor = -slope * scoreScale;
         return new TreeEnsemble(trees, [.. ensemble.TreeWeights.Select(w => w * factor)],
             -slope * scoreScale * ensemble.Bias - offset, featureCount);

@@ -579,6 +579,47 @@ namespace Triage.Cases.Store.Migrations.Postgres
                     b.ToTable("Drivers");
                 });
 
+            modelBuilder.Entity("Triage.Cases.Domain.ModelChange", b =>
+                {
+                    b.Property<int>("Id")
+                        .ValueGeneratedOnAdd()
+                        .HasColumnType("integer");
+
+                    NpgsqlPropertyBuilderExtensions.UseIdentityByDefaultColumn(b.Property<int>("Id"));
+
+                    b.Property<DateTime>("At")
+                        .HasColumnType("timestamp with time zone");
+
+                    b.Property<string>("By")
+                        .IsRequired()
+                        .HasMaxLength(256)
+                        .HasColumnType("character varying(256)");
+
+                    b.Property<string>("Kind")
+                        .IsRequired()
+                        .HasMaxLength(16)
+                        .HasColumnType("character varying(16)");
+
+                    b.Property<int>("ModelVersionId")
+                        .HasColumnType("integer");
+
+                    b.Property<string>("Note")
+                        .HasMaxLength(2000)
+                        .HasColumnType("character varying(2000)");
+
+                    b.Property<string>("OtherVersion")
+                        .HasMaxLength(64)
+                        .HasColumnType("character varying(64)");
+
+                    b.HasKey("Id");
+
+                    b.HasIndex("At");
+
+                    b.HasIndex("ModelVersionId");
+
+                    b.ToTable("ModelChanges");
+                });
+
             modelBuilder.Entity("Triage.Cases.Domain.ModelVersion", b =>
                 {
                     b.Property<int>("Id")
@@ -589,6 +630,13 @@ namespace Triage.Cases.Store.Migrations.Postgres
 
                     b.Property<double>("Brier")
                         .HasColumnType("double precision");
+
+                    b.Property<string>("ComparedWith")
+                        .HasMaxLength(64)
+                        .HasColumnType("character varying(64)");
+
+                    b.Property<string>("ComparisonJson")
+                        .HasColumnType("text");
 
                     b.Property<string>("FilePath")
                         .IsRequired()
@@ -612,8 +660,20 @@ namespace Triage.Cases.Store.Migrations.Postgres
                     b.Property<string>("PromotedBy")
                         .HasColumnType("text");
 
+                    b.Property<string>("PromotionNote")
+                        .HasMaxLength(2000)
+                        .HasColumnType("character varying(2000)");
+
                     b.Property<double>("RocAuc")
                         .HasColumnType("double precision");
+
+                    b.Property<string>("SettingsJson")
+                        .HasColumnType("text");
+
+                    b.Property<string>("Status")
+                        .IsRequired()
+                        .HasMaxLength(16)
+                        .HasColumnType("character varying(16)");
 
                     b.Property<DateTime>("TrainedAt")
                         .HasColumnType("timestamp with time zone");
@@ -685,6 +745,59 @@ namespace Triage.Cases.Store.Migrations.Postgres
                     b.HasKey("Id");
 
                     b.ToTable("PlaybookRules");
+                });
+
+            modelBuilder.Entity("Triage.Cases.Domain.SupersededDriver", b =>
+                {
+                    b.Property<long>("Id")
+                        .ValueGeneratedOnAdd()
+                        .HasColumnType("bigint");
+
+                    NpgsqlPropertyBuilderExtensions.UseIdentityByDefaultColumn(b.Property<long>("Id"));
+
+                    b.Property<int>("CaseId")
+                        .HasColumnType("integer");
+
+                    b.Property<string>("Comparison")
+                        .IsRequired()
+                        .HasColumnType("text");
+
+                    b.Property<double>("Contribution")
+                        .HasColumnType("double precision");
+
+                    b.Property<string>("DisplayName")
+                        .IsRequired()
+                        .HasMaxLength(120)
+                        .HasColumnType("character varying(120)");
+
+                    b.Property<double>("EffectPoints")
+                        .HasColumnType("double precision");
+
+                    b.Property<string>("Field")
+                        .IsRequired()
+                        .HasMaxLength(64)
+                        .HasColumnType("character varying(64)");
+
+                    b.Property<string>("ModelVersion")
+                        .IsRequired()
+                        .HasMaxLength(64)
+                        .HasColumnType("character varying(64)");
+
+                    b.Property<int>("Rank")
+                        .HasColumnType("integer");
+
+                    b.Property<DateTime>("SupersededAt")
+                        .HasColumnType("timestamp with time zone");
+
+                    b.Property<string>("ValueText")
+                        .IsRequired()
+                        .HasColumnType("text");
+
+                    b.HasKey("Id");
+
+                    b.HasIndex("CaseId");
+
+                    b.ToTable("SupersededDrivers");
                 });
 
             modelBuilder.Entity("Triage.Cases.Domain.TriageUser", b =>
@@ -969,6 +1082,15 @@ namespace Triage.Cases.Store.Migrations.Postgres
                         .IsRequired();
                 });
 
+            modelBuilder.Entity("Triage.Cases.Domain.ModelChange", b =>
+                {
+                    b.HasOne("Triage.Cases.Domain.ModelVersion", null)
+                        .WithMany("Changes")
+                        .HasForeignKey("ModelVersionId")
+                        .OnDelete(DeleteBehavior.Cascade)
+                        .IsRequired();
+                });
+
             modelBuilder.Entity("Triage.Cases.Domain.PlaybookRule", b =>
                 {
                     b.OwnsMany("Triage.Cases.Domain.PlaybookCheck", "Checks", b1 =>
@@ -1001,6 +1123,15 @@ namespace Triage.Cases.Store.Migrations.Postgres
                         });
 
                     b.Navigation("Checks");
+                });
+
+            modelBuilder.Entity("Triage.Cases.Domain.SupersededDriver", b =>
+                {
+                    b.HasOne("Triage.Cases.Domain.Case", null)
+                        .WithMany("SupersededDrivers")
+                        .HasForeignKey("CaseId")
+                        .OnDelete(DeleteBehavior.Cascade)
+                        .IsRequired();
                 });
 
             modelBuilder.Entity("Triage.Cases.Domain.Verdict", b =>
@@ -1040,7 +1171,14 @@ namespace Triage.Cases.Store.Migrations.Postgres
 
                     b.Navigation("Notes");
 
+                    b.Navigation("SupersededDrivers");
+
                     b.Navigation("Verdicts");
+                });
+
+            modelBuilder.Entity("Triage.Cases.Domain.ModelVersion", b =>
+                {
+                    b.Navigation("Changes");
                 });
 #pragma warning restore 612, 618
         }

@@ -554,6 +554,45 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                     b.ToTable("Drivers");
                 });
 
+            modelBuilder.Entity("Triage.Cases.Domain.ModelChange", b =>
+                {
+                    b.Property<int>("Id")
+                        .ValueGeneratedOnAdd()
+                        .HasColumnType("INTEGER");
+
+                    b.Property<DateTime>("At")
+                        .HasColumnType("TEXT");
+
+                    b.Property<string>("By")
+                        .IsRequired()
+                        .HasMaxLength(256)
+                        .HasColumnType("TEXT");
+
+                    b.Property<string>("Kind")
+                        .IsRequired()
+                        .HasMaxLength(16)
+                        .HasColumnType("TEXT");
+
+                    b.Property<int>("ModelVersionId")
+                        .HasColumnType("INTEGER");
+
+                    b.Property<string>("Note")
+                        .HasMaxLength(2000)
+                        .HasColumnType("TEXT");
+
+                    b.Property<string>("OtherVersion")
+                        .HasMaxLength(64)
+                        .HasColumnType("TEXT");
+
+                    b.HasKey("Id");
+
+                    b.HasIndex("At");
+
+                    b.HasIndex("ModelVersionId");
+
+                    b.ToTable("ModelChanges");
+                });
+
             modelBuilder.Entity("Triage.Cases.Domain.ModelVersion", b =>
                 {
                     b.Property<int>("Id")
@@ -562,6 +601,13 @@ namespace Triage.Cases.Store.Migrations.Sqlite
 
                     b.Property<double>("Brier")
                         .HasColumnType("REAL");
+
+                    b.Property<string>("ComparedWith")
+                        .HasMaxLength(64)
+                        .HasColumnType("TEXT");
+
+                    b.Property<string>("ComparisonJson")
+                        .HasColumnType("TEXT");
 
                     b.Property<string>("FilePath")
                         .IsRequired()
@@ -585,8 +631,20 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                     b.Property<string>("PromotedBy")
                         .HasColumnType("TEXT");
 
+                    b.Property<string>("PromotionNote")
+                        .HasMaxLength(2000)
+                        .HasColumnType("TEXT");
+
                     b.Property<double>("RocAuc")
                         .HasColumnType("REAL");
+
+                    b.Property<string>("SettingsJson")
+                        .HasColumnType("TEXT");
+
+                    b.Property<string>("Status")
+                        .IsRequired()
+                        .HasMaxLength(16)
+                        .HasColumnType("TEXT");
 
                     b.Property<DateTime>("TrainedAt")
                         .HasColumnType("TEXT");
@@ -656,6 +714,57 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                     b.HasKey("Id");
 
                     b.ToTable("PlaybookRules");
+                });
+
+            modelBuilder.Entity("Triage.Cases.Domain.SupersededDriver", b =>
+                {
+                    b.Property<long>("Id")
+                        .ValueGeneratedOnAdd()
+                        .HasColumnType("INTEGER");
+
+                    b.Property<int>("CaseId")
+                        .HasColumnType("INTEGER");
+
+                    b.Property<string>("Comparison")
+                        .IsRequired()
+                        .HasColumnType("TEXT");
+
+                    b.Property<double>("Contribution")
+                        .HasColumnType("REAL");
+
+                    b.Property<string>("DisplayName")
+                        .IsRequired()
+                        .HasMaxLength(120)
+                        .HasColumnType("TEXT");
+
+                    b.Property<double>("EffectPoints")
+                        .HasColumnType("REAL");
+
+                    b.Property<string>("Field")
+                        .IsRequired()
+                        .HasMaxLength(64)
+                        .HasColumnType("TEXT");
+
+                    b.Property<string>("ModelVersion")
+                        .IsRequired()
+                        .HasMaxLength(64)
+                        .HasColumnType("TEXT");
+
+                    b.Property<int>("Rank")
+                        .HasColumnType("INTEGER");
+
+                    b.Property<DateTime>("SupersededAt")
+                        .HasColumnType("TEXT");
+
+                    b.Property<string>("ValueText")
+                        .IsRequired()
+                        .HasColumnType("TEXT");
+
+                    b.HasKey("Id");
+
+                    b.HasIndex("CaseId");
+
+                    b.ToTable("SupersededDrivers");
                 });
 
             modelBuilder.Entity("Triage.Cases.Domain.TriageUser", b =>
@@ -936,6 +1045,15 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                         .IsRequired();
                 });
 
+            modelBuilder.Entity("Triage.Cases.Domain.ModelChange", b =>
+                {
+                    b.HasOne("Triage.Cases.Domain.ModelVersion", null)
+                        .WithMany("Changes")
+                        .HasForeignKey("ModelVersionId")
+                        .OnDelete(DeleteBehavior.Cascade)
+                        .IsRequired();
+                });
+
             modelBuilder.Entity("Triage.Cases.Domain.PlaybookRule", b =>
                 {
                     b.OwnsMany("Triage.Cases.Domain.PlaybookCheck", "Checks", b1 =>
@@ -966,6 +1084,15 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                         });
 
                     b.Navigation("Checks");
+                });
+
+            modelBuilder.Entity("Triage.Cases.Domain.SupersededDriver", b =>
+                {
+                    b.HasOne("Triage.Cases.Domain.Case", null)
+                        .WithMany("SupersededDrivers")
+                        .HasForeignKey("CaseId")
+                        .OnDelete(DeleteBehavior.Cascade)
+                        .IsRequired();
                 });
 
             modelBuilder.Entity("Triage.Cases.Domain.Verdict", b =>
@@ -1005,7 +1132,14 @@ namespace Triage.Cases.Store.Migrations.Sqlite
 
                     b.Navigation("Notes");
 
+                    b.Navigation("SupersededDrivers");
+
                     b.Navigation("Verdicts");
+                });
+
+            modelBuilder.Entity("Triage.Cases.Domain.ModelVersion", b =>
+                {
+                    b.Navigation("Changes");
                 });
 #pragma warning restore 612, 618
         }

@@ -1,7 +1,7 @@
 using Microsoft.ML;
 using Triage.Scoring.Metrics;
 
-namespace Triage.Scoring.Tests.Training;
+namespace Triage.Scoring.Tests.Metrics;
 
 public class BinaryMetricsTests
 {
