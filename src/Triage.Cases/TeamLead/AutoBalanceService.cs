@@ -87,7 +87,9 @@ public sealed class AutoBalanceService(TriageDbContext db, CaseEvents events, Ti
         if (covering.Count == 0) return $"Nobody on the team works {line} claims.";
         var present = covering.Where(l => !l.User.IsAbsent).ToList();
         if (present.Count == 0) return $"Everyone who works {line} claims is marked absent.";
-        return $"No capacity left today among the {present.Count} present investigator{(present.Count == 1 ? "" : "s")} who work {line} claims.";
+        return present.Count == 1
+            ? $"{present[0].User.DisplayName}, the one present investigator who works {line} claims, has no capacity left today."
+            : $"No capacity left today among the {present.Count} present investigators who work {line} claims.";
     }
 
     /// <summary>Applies the plan whole, or refuses naming everything that changed since it was made; returns how many cases were handed out.</summary>
@@ -106,13 +108,18 @@ public sealed class AutoBalanceService(TriageDbContext db, CaseEvents events, Ti
 
         var now = clock.GetUtcNow().UtcDateTime;
         var loads = (await TeamLoad.LoadAsync(db, TeamDay.Of(now), ct)).ToDictionary(l => l.User.Id);
+        var refusedPeople = new HashSet<string>();
         foreach (var share in plan.Cases.GroupBy(c => c.ToUserId))
         {
             var name = share.First().ToName;
-            if (!loads.TryGetValue(share.Key, out var load)) refusals.Add($"{name} is no longer an investigator.");
-            else if (load.User.IsAbsent) refusals.Add($"{name} was marked absent since the plan was made.");
-            else if (load.RemainingToday < share.Count())
-                refusals.Add($"{name} can take {load.RemainingToday} more today, not the {share.Count()} planned (cases came to them since the plan was made).");
+            var why = !loads.TryGetValue(share.Key, out var load) ? $"{name} is no longer an investigator."
+                : load.User.IsAbsent ? $"{name} was marked absent since the plan was made."
+                : load.RemainingToday < share.Count()
+                    ? $"{name} can take {load.RemainingToday} more today, not the {share.Count()} planned (cases came to them since the plan was made)."
+                    : null;
+            if (why is null) continue;
+            refusals.Add(why);
+            refusedPeople.Add(share.Key);
         }
 
         var ids = plan.Cases.Select(c => c.CaseId).ToList();
@@ -123,7 +130,7 @@ public sealed class AutoBalanceService(TriageDbContext db, CaseEvents events, Ti
         {
             if (!cases.TryGetValue(p.CaseId, out var c)) { refusals.Add($"Case {p.ClaimNumber} no longer exists."); continue; }
             if (c.Version != p.Version) { refusals.Add(ReassignService.Changed(c)); continue; }
-            if (!users.TryGetValue(p.ToUserId, out var to)) continue; // named above
+            if (refusedPeople.Contains(p.ToUserId) || !users.TryGetValue(p.ToUserId, out var to)) continue; // named above
             try { c.AssignTo(to, actor, now, Reason); }
             catch (DomainRuleException e) { refusals.Add(e.Message); }
         }
