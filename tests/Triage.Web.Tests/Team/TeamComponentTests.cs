@@ -50,7 +50,7 @@ public sealed class TeamComponentTests : ComponentTest
         var table = Ctx.Render<PoolTable>(p => p.Add(x => x.Pool, pool));
         Assert.Equal("3", table.Find("[data-testid=pool-home] [data-testid=pool-count]").TextContent.Trim());
         Assert.Equal("7", table.Find("[data-testid=pool-total]").TextContent.Trim());
-        Assert.Equal(["Line", "Risk 80–100", "Risk 60–79", "Risk 40–59", "Risk 20–39", "Risk 0–19", "All", ""],
+        Assert.Equal(["Line", "80–100", "60–79", "40–59", "20–39", "0–19", "All", ""],
             table.FindAll("thead th").Select(th => th.TextContent.Trim()));
         Assert.Equal(["motor", "2", "·", "1", "1", "·", "4", "Cases"], table.FindAll("[data-testid=pool-motor] td").Select(td => td.TextContent.Trim()));
     }
