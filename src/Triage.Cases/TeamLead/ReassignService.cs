@@ -78,7 +78,12 @@ public sealed class ReassignService(TriageDbContext db, CaseEvents events, TimeP
             try { move(c, now, reason.Trim()); }
             catch (DomainRuleException e) { refusals.Add(e.Message); }
         }
-        if (refusals.Count > 0) throw new ReassignRefusedException(refusals);
+        if (refusals.Count > 0)
+        {
+            // Nothing of the refused request may ride along with a later save on this context.
+            db.ChangeTracker.Clear();
+            throw new ReassignRefusedException(refusals);
+        }
         await SaveAllOrNothingAsync(db, seen, "Nothing was reassigned", ct);
         foreach (var id in ids) events.Publish(id, what);
     }
