@@ -76,6 +76,9 @@ public static class CasesSetup
         s.AddScoped<ClaimIntake>();
         s.AddScoped<ApiKeyService>();
         s.AddScoped<ReassignService>();
+        s.AddScoped<WorkloadService>();
+        s.AddScoped<AbsenceService>();
+        s.AddScoped<AutoBalanceService>();
         s.AddScoped<InsightsService>();
         s.AddScoped<HistoricCases>();
         s.AddScoped<StoreBackup>();

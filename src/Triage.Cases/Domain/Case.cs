@@ -113,6 +113,8 @@ public sealed class Case
         if (assignee.Id == AssigneeId) throw new DomainRuleException($"Case {ClaimNumber} is already assigned to {assignee.DisplayName}.");
         if (!assignee.Covers(Line))
             throw new DomainRuleException($"{assignee.DisplayName} does not work {Line} claims, so case {ClaimNumber} cannot go to them.");
+        if (assignee.IsAbsent)
+            throw new DomainRuleException($"{assignee.DisplayName} is marked absent, so case {ClaimNumber} cannot go to them; mark them present first.");
         at = Claim.Utc(at);
         Assignments.Add(new Assignment(AssigneeId, assignee.Id, by.UserName, at, reason));
         AssigneeId = assignee.Id;
@@ -121,6 +123,22 @@ public sealed class Case
         // A new assignee starts the review afresh.
         Status = CaseStatus.Assigned;
         Record(by, "case.assigned", $"to {assignee.UserName}" + (reason is null ? "" : $": {reason}"), at);
+    }
+
+    /// <summary>Takes the case off its assignee and puts it back in the unassigned pool, to be taken or handed out again.</summary>
+    public void ReturnToPool(Actor by, DateTime at, string reason)
+    {
+        RefuseWhenClosed("returned to the pool");
+        if (AssigneeId is null) throw new DomainRuleException($"Case {ClaimNumber} is already in the unassigned pool.");
+        if (string.IsNullOrWhiteSpace(reason)) throw new DomainRuleException($"Returning case {ClaimNumber} to the pool needs a reason.");
+        at = Claim.Utc(at);
+        var from = AssigneeName;
+        Assignments.Add(new Assignment(AssigneeId, null, by.UserName, at, reason.Trim()));
+        AssigneeId = null;
+        Assignee = null;
+        AssigneeName = null;
+        Status = CaseStatus.New;
+        Record(by, "case.returned", $"from {from} to the pool: {reason.Trim()}", at);
     }
 
     public void StartReview(Actor by, DateTime at)

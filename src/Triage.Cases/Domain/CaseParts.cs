@@ -88,12 +88,12 @@ public sealed class CaseNote
     public DateTime At { get; private set; }
 }
 
-/// <summary>Who held the case from when; the full chain survives reassignments.</summary>
+/// <summary>Who held the case from when; the full chain survives reassignments. No <see cref="ToUserId"/> means back to the pool.</summary>
 public sealed class Assignment
 {
     private Assignment() { }
 
-    internal Assignment(string? fromUserId, string toUserId, string by, DateTime at, string? reason)
+    internal Assignment(string? fromUserId, string? toUserId, string by, DateTime at, string? reason)
     {
         FromUserId = fromUserId;
         ToUserId = toUserId;
@@ -105,7 +105,7 @@ public sealed class Assignment
     public int Id { get; private set; }
     public int CaseId { get; private set; }
     public string? FromUserId { get; private set; }
-    public string ToUserId { get; private set; } = "";
+    public string? ToUserId { get; private set; }
     public string By { get; private set; } = "";
     public DateTime At { get; private set; }
     public string? Reason { get; private set; }

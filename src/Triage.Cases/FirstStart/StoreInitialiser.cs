@@ -104,7 +104,7 @@ public sealed class StoreInitialiser(
             .Select(x => CaseOpener.Open(x.Scored, model.Metadata.Version, playbook, x.Scored.Claim.ReportDate, queue.Value.DueDays, Actor.System, x.Selection))
             .ToList();
         var queuedClaims = opened.Select(x => x.Scored.Claim).ToHashSet();
-        AssignDemoCases(cases, team, now);
+        AssignDemoCases(cases, team);
         db.ChangeTracker.AutoDetectChangesEnabled = false;
         foreach (var batch in cases.Chunk(BatchSize / 4))
         {
@@ -197,7 +197,7 @@ public sealed class StoreInitialiser(
     }
 
     /// <summary>Gives each demo investigator a day's worth of the riskiest cases on their lines, so "My cases" is not empty.</summary>
-    private static void AssignDemoCases(List<Case> cases, IReadOnlyList<(TriageUser User, TeamMember Member)> team, DateTime now)
+    private static void AssignDemoCases(List<Case> cases, IReadOnlyList<(TriageUser User, TeamMember Member)> team)
     {
         var load = team.Where(t => t.Member.Roles.Contains(Roles.Investigator)).ToDictionary(t => t.User, _ => 0);
         foreach (var c in cases.OrderByDescending(c => c.Probability))
@@ -205,7 +205,8 @@ public sealed class StoreInitialiser(
             var who = load.Where(kv => kv.Value < kv.Key.DailyCapacity && kv.Key.Covers(c.Line))
                 .OrderBy(kv => kv.Value).Select(kv => kv.Key).FirstOrDefault();
             if (who is null) continue;
-            c.AssignTo(who, Actor.System, now, "demo start");
+            // Dated when the case opened, as if taken the day it arrived: today's capacity stays free for the team page.
+            c.AssignTo(who, Actor.System, c.OpenedAt, "demo start");
             load[who]++;
         }
     }

@@ -27,6 +27,9 @@ public sealed class TakeNextService(TriageDbContext db, TimeProvider clock, Case
             db.ChangeTracker.Clear();
             var user = await db.Users.SingleOrDefaultAsync(u => u.Id == actor.UserId, ct)
                 ?? throw new AccessDeniedException($"{actor.UserName} has no account in this store.");
+            // Absence is the lead's plan for the day; the person asks to be marked present rather than overriding it.
+            if (user.IsAbsent)
+                throw new DomainRuleException($"You are marked absent since {user.AbsentSince:d MMM}, so take next hands you nothing; ask a team lead to mark you present.");
             var lines = user.LineList.ToList();
             if (lines.Count == 0) throw new DomainRuleException($"{user.DisplayName} has no lines of business, so no case can be taken.");
             var next = await db.Cases

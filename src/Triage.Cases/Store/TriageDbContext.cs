@@ -43,6 +43,8 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
         {
             u.Property(x => x.DisplayName).HasMaxLength(120);
             u.Property(x => x.Lines).HasMaxLength(200);
+            u.Property(x => x.AbsenceNote).HasMaxLength(200);
+            u.Ignore(x => x.IsAbsent);
         });
 
         b.Entity<Claim>(c =>
@@ -78,6 +80,8 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
             c.HasIndex(x => x.ClaimedAmount, "IX_Cases_Open_ClaimedAmount").HasFilter(OpenOnly);
             c.HasIndex(x => x.ReceivedDate, "IX_Cases_Open_ReceivedDate").HasFilter(OpenOnly);
             c.HasIndex(x => x.ClaimNumber, "IX_Cases_Open_ClaimNumber").HasFilter(OpenOnly);
+            // The team page counts each person's cases closed this week.
+            c.HasIndex(x => new { x.ClosedAt, x.AssigneeId }, "IX_Cases_ClosedAt_Assignee");
             c.Ignore(x => x.CurrentVerdict);
         });
 
@@ -101,6 +105,8 @@ public abstract class TriageDbContext(DbContextOptions options) : IdentityDbCont
             v.HasOne<Verdict>().WithMany().HasForeignKey(x => x.AmendsVerdictId).OnDelete(DeleteBehavior.Restrict);
             v.Ignore(x => x.IsCurrent);
         });
+        // The team page counts today's assignments per person; return-to-pool rows have no ToUserId.
+        b.Entity<Assignment>(a => a.HasIndex(x => new { x.At, x.ToUserId }));
         b.Entity<AuditEvent>(a =>
         {
             a.HasOne<Case>().WithMany(x => x.Audit).HasForeignKey(x => x.CaseId);

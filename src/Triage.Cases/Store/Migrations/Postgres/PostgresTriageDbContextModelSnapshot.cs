@@ -233,12 +233,13 @@ namespace Triage.Cases.Store.Migrations.Postgres
                         .HasColumnType("text");
 
                     b.Property<string>("ToUserId")
-                        .IsRequired()
                         .HasColumnType("text");
 
                     b.HasKey("Id");
 
                     b.HasIndex("CaseId");
+
+                    b.HasIndex("At", "ToUserId");
 
                     b.ToTable("Assignment");
                 });
@@ -372,6 +373,8 @@ namespace Triage.Cases.Store.Migrations.Postgres
 
                     b.HasIndex("ClaimId")
                         .IsUnique();
+
+                    b.HasIndex(new[] { "ClosedAt", "AssigneeId" }, "IX_Cases_ClosedAt_Assignee");
 
                     b.HasIndex(new[] { "AssigneeId", "Line", "Probability" }, "IX_Cases_Open_Assignee_Line_Probability")
                         .HasFilter("\"IsOpen\"");
@@ -804,6 +807,13 @@ namespace Triage.Cases.Store.Migrations.Postgres
                 {
                     b.Property<string>("Id")
                         .HasColumnType("text");
+
+                    b.Property<string>("AbsenceNote")
+                        .HasMaxLength(200)
+                        .HasColumnType("character varying(200)");
+
+                    b.Property<DateTime?>("AbsentSince")
+                        .HasColumnType("timestamp with time zone");
 
                     b.Property<int>("AccessFailedCount")
                         .HasColumnType("integer");

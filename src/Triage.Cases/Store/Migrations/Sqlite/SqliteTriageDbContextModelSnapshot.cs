@@ -220,12 +220,13 @@ namespace Triage.Cases.Store.Migrations.Sqlite
                         .HasColumnType("TEXT");
 
                     b.Property<string>("ToUserId")
-                        .IsRequired()
                         .HasColumnType("TEXT");
 
                     b.HasKey("Id");
 
                     b.HasIndex("CaseId");
+
+                    b.HasIndex("At", "ToUserId");
 
                     b.ToTable("Assignment");
                 });
@@ -355,6 +356,8 @@ namespace Triage.Cases.Store.Migrations.Sqlite
 
                     b.HasIndex("ClaimId")
                         .IsUnique();
+
+                    b.HasIndex(new[] { "ClosedAt", "AssigneeId" }, "IX_Cases_ClosedAt_Assignee");
 
                     b.HasIndex(new[] { "AssigneeId", "Line", "Probability" }, "IX_Cases_Open_Assignee_Line_Probability")
                         .HasFilter("\"IsOpen\"");
@@ -770,6 +773,13 @@ namespace Triage.Cases.Store.Migrations.Sqlite
             modelBuilder.Entity("Triage.Cases.Domain.TriageUser", b =>
                 {
                     b.Property<string>("Id")
+                        .HasColumnType("TEXT");
+
+                    b.Property<string>("AbsenceNote")
+                        .HasMaxLength(200)
+                        .HasColumnType("TEXT");
+
+                    b.Property<DateTime?>("AbsentSince")
                         .HasColumnType("TEXT");
 
                     b.Property<int>("AccessFailedCount")
