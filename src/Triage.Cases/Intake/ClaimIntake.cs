@@ -173,9 +173,9 @@ public sealed class ClaimIntake(
             if (batch.Count == 0) return;
             var claims = batch;
             batch = new(o.BatchSize);
-            var scoring = Task.Run(() => phases.Time(ImportClock.Scoring, () => Build(claims)), ct);
-            if (previous is not null) await WriteAsync(previous);
-            previous = scoring;
+            var scored = previous;
+            previous = Task.Run(() => phases.Time(ImportClock.Scoring, () => Build(claims)), ct);
+            if (scored is not null) await WriteAsync(scored);
         }
 
         try
@@ -191,8 +191,9 @@ public sealed class ClaimIntake(
                     if (batch.Count >= o.BatchSize) await HandOverAsync();
                 }
             await HandOverAsync();
-            if (previous is not null) await WriteAsync(previous);
+            var last = previous;
             previous = null;
+            if (last is not null) await WriteAsync(last);
         }
         finally
         {
