@@ -83,18 +83,8 @@ public sealed class OutcomeExportService(TriageDbContext db, Pseudonyms pseudony
         var cases = db.Cases.AsNoTracking().Where(c => c.Status == CaseStatus.Closed);
         if (f.Line is { } line) cases = cases.Where(c => c.Line == line);
         if (f.ModelVersion is { } version) cases = cases.Where(c => c.ModelVersion == version);
-        var verdicts = db.Verdicts.AsNoTracking().Where(v => v.SupersededAt == null);
+        var verdicts = db.Verdicts.AsNoTracking().CurrentOnDays(f.From, f.To);
         if (!f.IncludeInconclusive) verdicts = verdicts.Where(v => v.Outcome != VerdictOutcome.Inconclusive);
-        if (f.From is { } from)
-        {
-            var start = from.ToDateTime(TimeOnly.MinValue, DateTimeKind.Utc);
-            verdicts = verdicts.Where(v => v.At >= start);
-        }
-        if (f.To is { } to)
-        {
-            var end = to.AddDays(1).ToDateTime(TimeOnly.MinValue, DateTimeKind.Utc);
-            verdicts = verdicts.Where(v => v.At < end);
-        }
         return cases.Join(verdicts, c => c.Id, v => v.CaseId, (c, v) => new Selection
         {
             CaseId = c.Id, ClaimNumber = c.ClaimNumber, Line = c.Line, OpenedAt = c.OpenedAt, VerdictAt = v.At, Outcome = v.Outcome,

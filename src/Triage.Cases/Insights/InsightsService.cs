@@ -143,17 +143,7 @@ public sealed class InsightsService(TriageDbContext db, TimeProvider clock)
         var cases = db.Cases.Where(c => c.Status == CaseStatus.Closed);
         if (f.Line is { } line) cases = cases.Where(c => c.Line == line);
         if (f.ModelVersion is { } version) cases = cases.Where(c => c.ModelVersion == version);
-        var verdicts = db.Verdicts.Where(v => v.SupersededAt == null);
-        if (f.From is { } from)
-        {
-            var start = from.ToDateTime(TimeOnly.MinValue, DateTimeKind.Utc);
-            verdicts = verdicts.Where(v => v.At >= start);
-        }
-        if (f.To is { } to)
-        {
-            var end = to.AddDays(1).ToDateTime(TimeOnly.MinValue, DateTimeKind.Utc);
-            verdicts = verdicts.Where(v => v.At < end);
-        }
+        var verdicts = db.Verdicts.CurrentOnDays(f.From, f.To);
         return cases.Join(verdicts, c => c.Id, v => v.CaseId, (c, v) => new ClosedCase
         {
             CaseId = c.Id, Outcome = v.Outcome, At = v.At, Saved = v.AmountSaved, Assignee = c.AssigneeName, Probability = c.Probability,
