@@ -2,56 +2,24 @@ using System.CommandLine;
 using Microsoft.Data.Sqlite;
 using Microsoft.Extensions.Configuration;
 using Triage.Cases.Tests.Support;
+using Triage.Cli.Tests.Support;
 using Triage.Cli.Export;
 using static Triage.Cases.Tests.Export.OutcomeFiles;
 
 namespace Triage.Cli.Tests.Export;
 
 /// <summary>The export command in-process over a temp store seeded with the tiny scenario (demo on, so closed history cases exist).</summary>
-[Collection(Triage.Cli.Tests.Support.ConsoleCollection.Name)]
-public sealed class ExportCommandTests : IDisposable
+public sealed class ExportCommandTests() : TinyStoreCommandTest(400, 10)
 {
-    private readonly string _dir = Directory.CreateTempSubdirectory("triage-export-").FullName;
+    protected override IReadOnlyDictionary<string, string?> ExtraSettings { get; } = DemoOn(("Queue:Threshold", "0.25"));
 
-    public ExportCommandTests() => TinySeed.Write(Path.Combine(_dir, "seed"), historyRows: 400, openRows: 10);
-
-    public void Dispose()
-    {
-        SqliteConnection.ClearAllPools();
-        Directory.Delete(_dir, recursive: true);
-    }
-
-    private void Configure(IConfigurationBuilder c) => c.AddInMemoryCollection(new Dictionary<string, string?>
-    {
-        ["Storage:Provider"] = "Sqlite",
-        ["Storage:DataFolder"] = Path.Combine(_dir, "data"),
-        ["Demo:Enabled"] = "true",
-        ["Demo:Password"] = TinySeed.Password,
-        ["Demo:SeedFolder"] = Path.Combine(_dir, "seed"),
-        ["Queue:Threshold"] = "0.25",
-        ["Scoring:FastTree:NumberOfTrees"] = "20",
-        ["Scoring:FastTree:NumberOfLeaves"] = "6",
-    });
-
-    private (int Exit, string Out, string Err) Run(params string[] args)
-    {
-        var root = new RootCommand { ExportCommand.Create(Configure) };
-        var (stdout, stderr) = (new StringWriter(), new StringWriter());
-        var (oldOut, oldErr) = (Console.Out, Console.Error);
-        Console.SetOut(stdout);
-        Console.SetError(stderr);
-        try { return (root.Parse(args).Invoke(), stdout.ToString(), stderr.ToString()); }
-        finally
-        {
-            Console.SetOut(oldOut);
-            Console.SetError(oldErr);
-        }
-    }
+    protected override IEnumerable<Command> Commands(Action<IConfigurationBuilder> configure) =>
+        [ExportCommand.Create(configure)];
 
     [Fact]
     public async Task Csv_and_parquet_exports_hold_the_same_rows_and_filters_apply()
     {
-        var csvFile = Path.Combine(_dir, "out.csv");
+        var csvFile = Path.Combine(Dir, "out.csv");
         var (exit, stdout, stderr) = Run("export", "--format", "csv", "--out", csvFile);
         Assert.True(exit == 0, stderr);
         var (header, rows) = ReadCsv(await File.ReadAllBytesAsync(csvFile));
@@ -60,13 +28,13 @@ public sealed class ExportCommandTests : IDisposable
         Assert.Equal("claim_number", header[0]);
         Assert.All(rows, r => Assert.Contains(r["label"], new[] { "0", "1" }));
 
-        var parquetFile = Path.Combine(_dir, "out.parquet");
+        var parquetFile = Path.Combine(Dir, "out.parquet");
         Assert.Equal(0, Run("export", "--format", "parquet", "--out", parquetFile, "--pseudonymise", "--include-inconclusive").Exit);
         var (_, columns) = await ReadParquetAsync(await File.ReadAllBytesAsync(parquetFile));
         Assert.True(columns["claim_pseudonym"].Count >= rows.Count);
         Assert.All(columns["claim_pseudonym"], p => Assert.StartsWith("ps-", (string)p!));
 
-        var motorFile = Path.Combine(_dir, "motor.csv");
+        var motorFile = Path.Combine(Dir, "motor.csv");
         Assert.Equal(0, Run("export", "--format", "csv", "--out", motorFile, "--line", "motor", "--from", "2000-01-01", "--to", "2100-12-31").Exit);
         var motor = ReadCsv(await File.ReadAllBytesAsync(motorFile)).Rows;
         Assert.Equal(rows.Count(r => r["line_of_business"] == "motor"), motor.Count);
@@ -75,7 +43,7 @@ public sealed class ExportCommandTests : IDisposable
     [Fact]
     public void Bad_dates_and_formats_are_refused_and_leave_no_file()
     {
-        var file = Path.Combine(_dir, "bad.csv");
+        var file = Path.Combine(Dir, "bad.csv");
         var (exit, _, stderr) = Run("export", "--format", "csv", "--out", file, "--from", "31/12/2026");
         Assert.Equal(2, exit);
         Assert.Contains("--from must be a date as yyyy-MM-dd (got '31/12/2026')", stderr);

@@ -2,53 +2,21 @@ using System.CommandLine;
 using Microsoft.Extensions.Configuration;
 using Triage.Cases.Tests.Intake;
 using Triage.Cases.Tests.Support;
+using Triage.Cli.Tests.Support;
 using Triage.Cli.ApiKeys;
 using Triage.Cli.Import;
 
 namespace Triage.Cli.Tests.Import;
 
 /// <summary>The commands run in-process over a temp store seeded with the tiny scenario (a 20-tree model).</summary>
-[Collection(Triage.Cli.Tests.Support.ConsoleCollection.Name)]
-public sealed class ImportCommandTests : IDisposable
+public sealed class ImportCommandTests() : TinyStoreCommandTest(300, 20)
 {
-    private readonly string _dir = Directory.CreateTempSubdirectory("triage-import-").FullName;
-
-    public ImportCommandTests() => TinySeed.Write(Path.Combine(_dir, "seed"), historyRows: 300, openRows: 20);
-
-    public void Dispose()
-    {
-        Microsoft.Data.Sqlite.SqliteConnection.ClearAllPools();
-        Directory.Delete(_dir, recursive: true);
-    }
-
-    private void Configure(IConfigurationBuilder c) => c.AddInMemoryCollection(new Dictionary<string, string?>
-    {
-        ["Storage:Provider"] = "Sqlite",
-        ["Storage:DataFolder"] = Path.Combine(_dir, "data"),
-        ["Demo:Enabled"] = "false",
-        ["Demo:SeedFolder"] = Path.Combine(_dir, "seed"),
-        ["Scoring:FastTree:NumberOfTrees"] = "20",
-        ["Scoring:FastTree:NumberOfLeaves"] = "6",
-    });
-
-    private (int Exit, string Out, string Err) Run(params string[] args)
-    {
-        var root = new RootCommand { ImportCommand.Create(Configure), ApiKeysCommand.Create(Configure) };
-        var (stdout, stderr) = (new StringWriter(), new StringWriter());
-        var (oldOut, oldErr) = (Console.Out, Console.Error);
-        Console.SetOut(stdout);
-        Console.SetError(stderr);
-        try { return (root.Parse(args).Invoke(), stdout.ToString(), stderr.ToString()); }
-        finally
-        {
-            Console.SetOut(oldOut);
-            Console.SetError(oldErr);
-        }
-    }
+    protected override IEnumerable<Command> Commands(Action<IConfigurationBuilder> configure) =>
+        [ImportCommand.Create(configure), ApiKeysCommand.Create(configure)];
 
     private string Write(string name, string text)
     {
-        var path = Path.Combine(_dir, name);
+        var path = Path.Combine(Dir, name);
         File.WriteAllText(path, text);
         return path;
     }
@@ -78,7 +46,7 @@ public sealed class ImportCommandTests : IDisposable
         Assert.Contains("rejected, nothing stored", result.Err);
         Assert.Contains("row 2", result.Err);
         Assert.Contains("header has 19", result.Err);
-        Assert.Equal(1, Run("import", Path.Combine(_dir, "missing.csv")).Exit);
+        Assert.Equal(1, Run("import", Path.Combine(Dir, "missing.csv")).Exit);
         Assert.Equal(2, Run("import", file, "--delimiter", ";;").Exit);
     }
 

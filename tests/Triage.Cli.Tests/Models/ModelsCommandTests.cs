@@ -1,49 +1,18 @@
 using System.CommandLine;
 using Microsoft.Extensions.Configuration;
 using Triage.Cases.Tests.Support;
+using Triage.Cli.Tests.Support;
 using Triage.Cli.Models;
 
 namespace Triage.Cli.Tests.Models;
 
 /// <summary>retrain → models list → promote → rollback over a temp store seeded with the tiny scenario.</summary>
-[Collection(Triage.Cli.Tests.Support.ConsoleCollection.Name)]
-public sealed class ModelsCommandTests : IDisposable
+public sealed class ModelsCommandTests() : TinyStoreCommandTest(400, 20)
 {
-    private readonly string _dir = Directory.CreateTempSubdirectory("triage-models-").FullName;
+    protected override IReadOnlyDictionary<string, string?> ExtraSettings { get; } = DemoOn();
 
-    public ModelsCommandTests() => TinySeed.Write(Path.Combine(_dir, "seed"), historyRows: 400, openRows: 20);
-
-    public void Dispose()
-    {
-        Microsoft.Data.Sqlite.SqliteConnection.ClearAllPools();
-        Directory.Delete(_dir, recursive: true);
-    }
-
-    private void Configure(IConfigurationBuilder c) => c.AddInMemoryCollection(new Dictionary<string, string?>
-    {
-        ["Storage:Provider"] = "Sqlite",
-        ["Storage:DataFolder"] = Path.Combine(_dir, "data"),
-        ["Demo:Enabled"] = "true",
-        ["Demo:Password"] = TinySeed.Password,
-        ["Demo:SeedFolder"] = Path.Combine(_dir, "seed"),
-        ["Scoring:FastTree:NumberOfTrees"] = "20",
-        ["Scoring:FastTree:NumberOfLeaves"] = "6",
-    });
-
-    private (int Exit, string Out, string Err) Run(params string[] args)
-    {
-        var root = new RootCommand { ModelsCommand.Retrain(Configure), ModelsCommand.Models(Configure) };
-        var (stdout, stderr) = (new StringWriter(), new StringWriter());
-        var (oldOut, oldErr) = (Console.Out, Console.Error);
-        Console.SetOut(stdout);
-        Console.SetError(stderr);
-        try { return (root.Parse(args).Invoke(), stdout.ToString(), stderr.ToString()); }
-        finally
-        {
-            Console.SetOut(oldOut);
-            Console.SetError(oldErr);
-        }
-    }
+    protected override IEnumerable<Command> Commands(Action<IConfigurationBuilder> configure) =>
+        [ModelsCommand.Retrain(configure), ModelsCommand.Models(configure)];
 
     [Fact]
     public void Retrain_promote_and_roll_back_from_the_command_line()
