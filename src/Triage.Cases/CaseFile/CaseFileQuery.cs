@@ -16,7 +16,7 @@ public sealed record CaseStamp(Guid Version, long LastAuditId);
 public sealed record QueueRank(int Rank, int OpenCases);
 
 public sealed record CaseFileView(Case Case, Claim Claim, IReadOnlyList<DriverWithChecks> Raising, IReadOnlyList<DriverWithChecks> Lowering,
-    QueueRank? Rank, CaseStamp Stamp);
+    QueueRank? Rank, CaseStamp Stamp, IReadOnlyList<AssignmentChange> Assignments);
 
 /// <summary>Everything the case page and the case report show, read without tracking.</summary>
 public sealed class CaseFileQuery(TriageDbContext db)
@@ -44,6 +44,7 @@ public sealed class CaseFileQuery(TriageDbContext db)
         var lowering = drivers.Where(d => d.Contribution < 0).OrderBy(d => d.Contribution)
             .Select(d => new DriverWithChecks(d, [], lowersRules.Where(r => r.Matches(d, values)).SelectMany(r => r.Checks).ToList()))
             .ToList();
-        return new CaseFileView(c, c.Claim, raising, lowering, rank, new CaseStamp(c.Version, lastAudit));
+        var assignments = await AssignmentHistory.ForCaseAsync(db, caseId, ct);
+        return new CaseFileView(c, c.Claim, raising, lowering, rank, new CaseStamp(c.Version, lastAudit), assignments);
     }
 }
