@@ -73,6 +73,8 @@ public sealed class AnalystModelFlowTests(AppProcess app) : IClassFixture<AppPro
         await _page.EvaluateAsync("() => window.scrollTo(0, 0)");
         await Screenshots.SaveAsync(_page, "models-versions");
         Assert.Equal(Challenger, await CaseModelAsync(caseLink));
+        // What the replaced model said stays on the case.
+        Assert.Equal([Champion], await EarlierModelsAsync());
 
         // Roll back to the first model, again re-scoring: it serves and the case is scored by it once more.
         await models.OpenFromNavigationAsync();
@@ -81,7 +83,12 @@ public sealed class AnalystModelFlowTests(AppProcess app) : IClassFixture<AppPro
         await Assertions.Expect(_page.GetByTestId("version-history")).ToContainTextAsync("rolled back to by");
         await Assertions.Expect(_page.GetByTestId("model-activity")).ToContainTextAsync("model.rolled-back");
         Assert.Equal(Champion, await CaseModelAsync(caseLink));
+        Assert.Equal([Challenger, Champion], await EarlierModelsAsync());
     }
+
+    /// <summary>The models that scored the open case before it was re-scored, most recently replaced first.</summary>
+    private async Task<IReadOnlyList<string>> EarlierModelsAsync() =>
+        (await _page.GetByTestId("earlier-model").AllInnerTextsAsync()).Select(t => t.Trim()).ToList();
 
     /// <summary>Opens a case page and reads the version of the model that scored the case.</summary>
     private async Task<string> CaseModelAsync(string caseLink)

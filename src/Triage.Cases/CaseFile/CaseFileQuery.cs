@@ -25,7 +25,7 @@ public sealed class CaseFileQuery(TriageDbContext db)
     {
         var c = await db.Cases.AsNoTracking().AsSplitQuery()
             .Include(x => x.Claim).Include(x => x.Assignee).Include(x => x.Drivers).Include(x => x.Checks)
-            .Include(x => x.Notes).Include(x => x.Verdicts)
+            .Include(x => x.Notes).Include(x => x.Verdicts).Include(x => x.SupersededDrivers)
             .SingleOrDefaultAsync(x => x.Id == caseId, ct);
         if (c?.Claim is null) return null;
         var lastAudit = await db.AuditEvents.Where(a => a.CaseId == caseId).MaxAsync(a => (long?)a.Id, ct) ?? 0;
