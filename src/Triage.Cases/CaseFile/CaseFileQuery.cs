@@ -16,7 +16,7 @@ public sealed record CaseStamp(Guid Version, long LastAuditId);
 public sealed record QueueRank(int Rank, int OpenCases);
 
 public sealed record CaseFileView(Case Case, Claim Claim, IReadOnlyList<DriverWithChecks> Raising, IReadOnlyList<DriverWithChecks> Lowering,
-    QueueRank? Rank, CaseStamp Stamp);
+    QueueRank? Rank, CaseStamp Stamp, IReadOnlyList<AssignmentChange> Assignments);
 
 /// <summary>Everything the case page and the case report show, read without tracking.</summary>
 public sealed class CaseFileQuery(TriageDbContext db)
@@ -25,7 +25,7 @@ public sealed class CaseFileQuery(TriageDbContext db)
     {
         var c = await db.Cases.AsNoTracking().AsSplitQuery()
             .Include(x => x.Claim).Include(x => x.Assignee).Include(x => x.Drivers).Include(x => x.Checks)
-            .Include(x => x.Notes).Include(x => x.Verdicts)
+            .Include(x => x.Notes).Include(x => x.Verdicts).Include(x => x.SupersededDrivers)
             .SingleOrDefaultAsync(x => x.Id == caseId, ct);
         if (c?.Claim is null) return null;
         var lastAudit = await db.AuditEvents.Where(a => a.CaseId == caseId).MaxAsync(a => (long?)a.Id, ct) ?? 0;
@@ -44,6 +44,7 @@ public sealed class CaseFileQuery(TriageDbContext db)
         var lowering = drivers.Where(d => d.Contribution < 0).OrderBy(d => d.Contribution)
             .Select(d => new DriverWithChecks(d, [], lowersRules.Where(r => r.Matches(d, values)).SelectMany(r => r.Checks).ToList()))
             .ToList();
-        return new CaseFileView(c, c.Claim, raising, lowering, rank, new CaseStamp(c.Version, lastAudit));
+        var assignments = await AssignmentHistory.ForCaseAsync(db, caseId, ct);
+        return new CaseFileView(c, c.Claim, raising, lowering, rank, new CaseStamp(c.Version, lastAudit), assignments);
     }
 }

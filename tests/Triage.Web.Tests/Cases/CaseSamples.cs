@@ -36,6 +36,6 @@ public static class CaseSamples
         var raising = c.Drivers.Where(d => d.Raises).OrderBy(d => d.Rank)
             .Select(d => new DriverWithChecks(d, c.Checks.Where(k => k.DriverField == d.Field).ToList(), [])).ToList();
         var lowering = c.Drivers.Where(d => !d.Raises).Select(d => new DriverWithChecks(d, [], [])).ToList();
-        return new CaseFileView(c, c.Claim!, raising, lowering, rank, new CaseStamp(c.Version, 0));
+        return new CaseFileView(c, c.Claim!, raising, lowering, rank, new CaseStamp(c.Version, 0), []);
     }
 }
