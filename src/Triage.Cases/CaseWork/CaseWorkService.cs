@@ -42,7 +42,7 @@ public sealed class CaseWorkService(TriageDbContext db, CaseFileQuery files, Cas
         ChangeAsync(caseId, seen, actor, "tick a check", [Roles.Investigator], c =>
         {
             RefuseUnlessAssignee(c, actor);
-            StartWork(c, actor);
+            c.StartWorkBy(actor);
             c.CompleteCheck(checkId, actor, Now, string.IsNullOrWhiteSpace(note) ? null : note.Trim());
             return "check.done";
         }, ct);
@@ -60,7 +60,7 @@ public sealed class CaseWorkService(TriageDbContext db, CaseFileQuery files, Cas
         ChangeAsync(caseId, seen, actor, "add a note", [Roles.Investigator, Roles.TeamLead, Roles.Manager], c =>
         {
             if (!actor.IsIn(Roles.TeamLead) && !actor.IsIn(Roles.Manager)) RefuseUnlessAssignee(c, actor);
-            if (c.AssigneeId == actor.UserId) StartWork(c, actor);
+            c.StartWorkBy(actor);
             c.AddNote(text, actor, Now);
             return "note.added";
         }, ct);
@@ -71,7 +71,7 @@ public sealed class CaseWorkService(TriageDbContext db, CaseFileQuery files, Cas
         {
             RefuseUnlessAssignee(c, actor);
             VerdictReasons.Require(v.Outcome, v.Reason);
-            StartWork(c, actor);
+            c.StartWorkBy(actor);
             c.RecordVerdict(v.Outcome, v.Reason, Trimmed(v.Note), v.AmountSaved, actor, Now);
             return "verdict.recorded";
         }, ct);
@@ -147,12 +147,6 @@ public sealed class CaseWorkService(TriageDbContext db, CaseFileQuery files, Cas
             throw new AccessDeniedException(c.AssigneeId is null
                 ? $"Case {c.ClaimNumber} is not assigned to anyone; take it from the queue before working on it."
                 : $"Case {c.ClaimNumber} is assigned to {c.AssigneeName}; only they can work on it.");
-    }
-
-    // The assignee's first piece of work moves an assigned case into review.
-    private void StartWork(Case c, Actor actor)
-    {
-        if (c.Status == CaseStatus.Assigned && c.AssigneeId == actor.UserId) c.StartReview(actor, Now);
     }
 
     private static string? Trimmed(string? s) => string.IsNullOrWhiteSpace(s) ? null : s.Trim();

@@ -150,6 +150,17 @@ public sealed class Case
         Record(by, "case.review-started", null, at);
     }
 
+    /// <summary>
+    /// The assignee's first piece of work (a tick, a note, the verdict) moves an assigned case into review. It is
+    /// part of that work, whose own audit event records it, so one action leaves one event.
+    /// </summary>
+    public void StartWorkBy(Actor by)
+    {
+        if (Status != CaseStatus.Assigned || by.UserId != AssigneeId) return;
+        Status = CaseStatus.InReview;
+        Version = Guid.NewGuid();
+    }
+
     public void CompleteCheck(int checkId, Actor by, DateTime at, string? note)
     {
         RefuseWhenClosed("changed");

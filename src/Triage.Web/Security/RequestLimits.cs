@@ -2,6 +2,7 @@ using System.Globalization;
 using System.Security.Cryptography;
 using System.Text;
 using System.Threading.RateLimiting;
+using Microsoft.AspNetCore.Identity;
 using Microsoft.AspNetCore.RateLimiting;
 using Microsoft.Extensions.Options;
 using Triage.Web.Account;
@@ -10,7 +11,7 @@ using Triage.Web.Intake;
 namespace Triage.Web.Security;
 
 /// <summary>
-/// One limiter for the two doors a stranger can knock on: the sign-in post (per client address) and the
+/// Account lockout, and one limiter for the two doors a stranger can knock on: the sign-in post (per client address) and the
 /// API (per key, so one noisy sender cannot starve the others). Pages behind sign-in are not limited.
 /// </summary>
 public static class RequestLimits
@@ -18,6 +19,13 @@ public static class RequestLimits
     public static IServiceCollection AddRequestLimits(this IServiceCollection s)
     {
         s.AddOptions<SecurityOptions>().BindConfiguration(SecurityOptions.Section).ValidateDataAnnotations().ValidateOnStart();
+        // Lockout counts failures per account (the sign-in post passes lockoutOnFailure); these settings win over Identity's defaults.
+        s.AddOptions<IdentityOptions>().Configure<IOptions<SecurityOptions>>((identity, security) =>
+        {
+            identity.Lockout.AllowedForNewUsers = true;
+            identity.Lockout.MaxFailedAccessAttempts = security.Value.LockoutFailures;
+            identity.Lockout.DefaultLockoutTimeSpan = TimeSpan.FromMinutes(security.Value.LockoutMinutes);
+        });
         s.AddRateLimiter(o =>
         {
             o.GlobalLimiter = PartitionedRateLimiter.Create<HttpContext, string>(http =>

@@ -37,7 +37,7 @@ public sealed class CaseChangedTests
         var inesSeen = (await f.OpenAsync(id, f.InesActor)).Stamp;
         await f.WorkAsync(s => s.RecordVerdictAsync(id, Fraud, inesSeen, f.InesActor));
         var e = await Assert.ThrowsAsync<CaseChangedException>(() => f.WorkAsync(s => s.AddNoteAsync(id, "late", leadSeen, f.Lead)));
-        Assert.Contains("ines started the review; ines recorded the verdict ConfirmedFraud and closed the case", e.Message);
+        Assert.Contains("changed after you opened it: ines recorded the verdict ConfirmedFraud and closed the case", e.Message);
         Assert.Empty((await f.LoadAsync(id)).Notes);
     }
 
