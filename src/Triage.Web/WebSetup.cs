@@ -8,6 +8,7 @@ using Triage.Web.Export;
 using Triage.Web.Insights;
 using Triage.Web.Reports;
 using Triage.Web.Intake;
+using Triage.Web.Operations;
 using Triage.Web.Security;
 
 namespace Triage.Web;
@@ -42,6 +43,7 @@ public static class WebSetup
             .AddClaimsPrincipalFactory<TriageClaimsFactory>();
         s.AddAuthorizationBuilder()
             .SetFallbackPolicy(new AuthorizationPolicyBuilder().RequireAuthenticatedUser().Build());
+        b.AddTriageTelemetry();
         return b;
     }
 
@@ -55,6 +57,7 @@ public static class WebSetup
         app.UseAuthorization();
         app.UseAntiforgery();
         app.MapStaticAssets().AllowAnonymous();
+        app.MapHealthEndpoints();
         app.MapAccountEndpoints();
         app.MapReportEndpoints();
         app.MapIntakeEndpoints();
