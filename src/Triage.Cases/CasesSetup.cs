@@ -1,5 +1,7 @@
 using Microsoft.AspNetCore.Identity;
 using Microsoft.EntityFrameworkCore;
+using Microsoft.EntityFrameworkCore.Infrastructure;
+using Microsoft.EntityFrameworkCore.Storage;
 using Microsoft.Extensions.Configuration;
 using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.DependencyInjection.Extensions;
@@ -130,8 +132,18 @@ public static class CasesSetup
         await using var scope = services.CreateAsyncScope();
         var sp = scope.ServiceProvider;
         var db = sp.GetRequiredService<TriageDbContext>();
-        // The lock lives in the database, so a database that does not exist yet is created (and migrated) first.
-        if (db.Database.IsNpgsql() && !await db.Database.CanConnectAsync(ct)) await db.Database.MigrateAsync(ct);
+        // The lock lives in the database, so a database that does not exist yet is created (empty) first.
+        if (db.Database.IsNpgsql() && !await db.Database.CanConnectAsync(ct))
+        {
+            try
+            {
+                await db.GetService<IRelationalDatabaseCreator>().CreateAsync(ct);
+            }
+            catch (Npgsql.PostgresException e) when (e.SqlState == Npgsql.PostgresErrorCodes.DuplicateDatabase)
+            {
+                // Another instance created it a moment ago.
+            }
+        }
         using var turn = await sp.GetRequiredService<IClusterLocks>().AcquireAsync(ClusterLock.FirstStart, ct);
         await sp.GetRequiredService<StoreInitialiser>().InitialiseAsync(ct);
     }
