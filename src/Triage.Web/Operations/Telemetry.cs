@@ -16,11 +16,11 @@ public sealed class TelemetryOptions
     public const string Section = "Telemetry";
 
     /// <summary>The collector's address, e.g. http://collector:4317. The standard OTEL_EXPORTER_OTLP_ENDPOINT variable works too.</summary>
-    [Url] public string? OtlpEndpoint { get; set; }
+    [Url(ErrorMessage = "Telemetry:OtlpEndpoint must be an absolute http or https address, such as http://collector:4317.")] public string? OtlpEndpoint { get; set; }
 
     public OtlpProtocol OtlpProtocol { get; set; } = OtlpProtocol.Grpc;
 
-    [Required] public string ServiceName { get; set; } = "triage";
+    [Required(ErrorMessage = "Telemetry:ServiceName must not be empty.")] public string ServiceName { get; set; } = "triage";
 }
 
 public static class Telemetry

@@ -54,8 +54,15 @@ public sealed class TwoInstances : IAsyncDisposable
         var both = new TwoInstances(store, b);
         try
         {
-            // Started together on a store that does not exist yet: one creates and seeds it, the other waits its turn.
-            await Task.WhenAll(Task.Run(() => store.Host.Services.InitialiseStoreAsync()), Task.Run(() => b.Services.InitialiseStoreAsync()));
+            if (provider == "Postgres")
+                // Started together on a store that does not exist yet: one creates and seeds it, the other waits its turn.
+                await Task.WhenAll(Task.Run(() => store.Host.Services.InitialiseStoreAsync()), Task.Run(() => b.Services.InitialiseStoreAsync()));
+            else
+            {
+                // SQLite serves one instance; a second host reads the same file here only to watch the registry.
+                await store.Host.Services.InitialiseStoreAsync();
+                await b.Services.InitialiseStoreAsync();
+            }
             await store.Host.StartAsync();
             await b.StartAsync();
             if (provider == "Postgres")
