@@ -66,6 +66,15 @@ public sealed class HealthTests(TriageWebFactory factory) : IClassFixture<Triage
     }
 
     [Fact]
+    public async Task The_key_ring_for_cookies_lives_in_the_data_folder_which_instances_share()
+    {
+        var client = SignInClient.Anonymous(factory);
+        await SignInClient.PostAsync(client, "ines.varga", Triage.Cases.Tests.Support.TinySeed.Password);
+        var keys = Path.Combine(factory.Folder, "data", WebSetup.KeysFolder);
+        Assert.NotEmpty(Directory.GetFiles(keys, "key-*.xml"));
+    }
+
+    [Fact]
     public void OpenTelemetry_is_off_until_an_endpoint_is_configured()
     {
         Assert.Null(factory.Services.GetService<MeterProvider>());
