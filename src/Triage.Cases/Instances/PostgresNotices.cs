@@ -51,8 +51,9 @@ public sealed class PostgresNotices : IInstanceNotices, IAsyncDisposable, IDispo
                 cmd.Parameters.AddWithValue("payload", notice.ToPayload());
                 await cmd.ExecuteNonQueryAsync();
             }
-            catch (Exception e) when (e is NpgsqlException or InvalidOperationException or TimeoutException)
+            catch (Exception e)
             {
+                // Whatever went wrong, the loop goes on: the next notice may well get through.
                 _log.LogWarning(e, "Could not tell the other instances about {What} (case {Case}, model {Model})", notice.What, notice.CaseId, notice.Model);
             }
         }

@@ -44,7 +44,8 @@ public sealed class RetrainService(RetrainState state, RetrainQueue queue, IServ
     public async Task CancelAsync(Actor by, CancellationToken ct = default)
     {
         by.Require("cancel a retrain", MayRetrain);
-        var run = state.Current ?? throw new DomainRuleException("No retrain is running.");
+        // A run belongs to the instance that started it; with several instances, cancel it there.
+        var run = state.Current ?? throw new DomainRuleException("No retrain is running on this instance.");
         if (!state.RequestCancel()) throw new DomainRuleException("No retrain is running.");
         db.AuditEvents.Add(new AuditEvent(by.UserName, "model.retrain-cancel", $"asked to cancel the retrain started by {run.StartedBy}", Now));
         await db.SaveChangesAsync(ct);
