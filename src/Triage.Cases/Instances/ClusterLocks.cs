@@ -89,7 +89,8 @@ public sealed class PostgresAdvisoryLocks(IOptions<StorageOptions> storage) : IC
 
     private static async Task<object?> LockAsync(NpgsqlConnection conn, string function, ClusterLock name, CancellationToken ct)
     {
-        await using var cmd = new NpgsqlCommand($"SELECT {function}(@key)", conn);
+        // No command timeout: waiting for the lock may outlast a first start (a minute or more); the token still cancels.
+        await using var cmd = new NpgsqlCommand($"SELECT {function}(@key)", conn) { CommandTimeout = 0 };
         cmd.Parameters.AddWithValue("key", (long)name);
         return await cmd.ExecuteScalarAsync(ct);
     }

@@ -172,3 +172,22 @@ public class TwoInstancesTests
         return held;
     }
 }
+
+/// <summary>The advisory locks on their own, on the server's maintenance database (skipped without TRIAGE_TEST_POSTGRES).</summary>
+public class AdvisoryLockTests
+{
+    [SkippableFact]
+    public async Task Waiting_for_a_turn_outlasts_the_command_timeout()
+    {
+        Skip.If(TestStore.PostgresSkipReason is not null, TestStore.PostgresSkipReason);
+        // A first start can take minutes; the waiting instance must not give up after the (here 1 s) command timeout.
+        var cs = new NpgsqlConnectionStringBuilder(Environment.GetEnvironmentVariable(TestStore.PostgresEnv)) { CommandTimeout = 1 }.ConnectionString;
+        var locks = new PostgresAdvisoryLocks(Microsoft.Extensions.Options.Options.Create(new Triage.Cases.Options.StorageOptions { Provider = "Postgres", ConnectionString = cs }));
+        var first = await locks.AcquireAsync(ClusterLock.FirstStart, default);
+        var second = locks.AcquireAsync(ClusterLock.FirstStart, default);
+        await Task.Delay(TimeSpan.FromSeconds(3));
+        Assert.False(second.IsCompleted, second.Exception?.ToString() ?? "the second instance got the lock while the first held it");
+        first.Dispose();
+        (await second.WaitAsync(TwoInstances.Patience)).Dispose();
+    }
+}
