@@ -1,5 +1,7 @@
 using Microsoft.AspNetCore.Identity;
 using Microsoft.EntityFrameworkCore;
+using Microsoft.EntityFrameworkCore.Infrastructure;
+using Microsoft.EntityFrameworkCore.Storage;
 using Microsoft.Extensions.Configuration;
 using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.DependencyInjection.Extensions;
@@ -15,9 +17,11 @@ using Triage.Cases.Drift;
 using Triage.Cases.Export;
 using Triage.Cases.FirstStart;
 using Triage.Cases.Hosting;
+using Triage.Cases.Instances;
 using Triage.Cases.Intake;
 using Triage.Cases.Models;
 using Triage.Cases.Insights;
+using Triage.Cases.Operations;
 using Triage.Cases.Options;
 using Triage.Cases.Queue;
 using Triage.Cases.Store;
@@ -28,6 +32,9 @@ namespace Triage.Cases;
 
 public static class CasesSetup
 {
+    /// <summary>The health checks that decide whether this instance may take traffic.</summary>
+    public const string ReadyTag = "ready";
+
     /// <summary>Registers scoring, the store for the configured provider, Identity's user store and the case services.</summary>
     public static IHostApplicationBuilder AddTriageCases(this IHostApplicationBuilder b)
     {
@@ -38,6 +45,7 @@ public static class CasesSetup
         s.AddOptions<QueueOptions>().BindConfiguration(QueueOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddOptions<DriftOptions>().BindConfiguration(DriftOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddOptions<IntakeOptions>().BindConfiguration(IntakeOptions.Section).ValidateDataAnnotations().ValidateOnStart();
+        s.AddOptions<InstanceOptions>().BindConfiguration(InstanceOptions.Section).ValidateDataAnnotations().ValidateOnStart();
         s.AddSingleton<IValidateOptions<StorageOptions>, StorageOptionsValidator>();
         s.AddSingleton<IValidateOptions<DemoOptions>, DemoOptionsValidator>();
         s.AddSingleton<TriagePaths>();
@@ -45,13 +53,33 @@ public static class CasesSetup
 
         // The provider decides the context type, so it is read now; everything else is read when used.
         var provider = b.Configuration[$"{StorageOptions.Section}:Provider"];
+        var health = s.AddHealthChecks()
+            .AddCheck<StoreReadyCheck>("store", tags: [ReadyTag])
+            .AddCheck<ServingModelCheck>("model", tags: [ReadyTag]);
         if (string.Equals(provider, nameof(StorageProvider.Postgres), StringComparison.OrdinalIgnoreCase))
+        {
             s.AddDbContext<TriageDbContext, PostgresTriageDbContext>((sp, o) =>
                 o.UseNpgsql(sp.GetRequiredService<IOptions<StorageOptions>>().Value.ConnectionString));
+            // Several instances may share this store: they tell each other about changes and take turns where only one may act.
+            s.AddSingleton<PostgresNotices>();
+            s.AddSingleton<IInstanceNotices>(sp => sp.GetRequiredService<PostgresNotices>());
+            s.AddSingleton<IClusterLocks, PostgresAdvisoryLocks>();
+            s.AddSingleton<PostgresNoticeListener>();
+            s.AddHostedService(sp => sp.GetRequiredService<PostgresNoticeListener>());
+            health.AddCheck<InstanceLinkCheck>("instances", tags: [ReadyTag]);
+        }
         else
+        {
             // One statement per command: Microsoft.Data.Sqlite re-prepares every statement of a multi-statement
             // batch, and bench `intake` stored claims twice as fast unbatched (measured here, 2 cores).
             s.AddDbContext<TriageDbContext, SqliteTriageDbContext>((sp, o) => o.UseSqlite(SqliteConnection(sp), x => x.MaxBatchSize(1)));
+            s.AddSingleton<IInstanceNotices, SingleInstance>();
+            s.AddSingleton<IClusterLocks, SingleInstanceLocks>();
+        }
+        s.AddSingleton<InstanceId>();
+        s.AddSingleton<TriageMetrics>();
+        s.AddSingleton<ServingModelWatch>();
+        s.AddHostedService(sp => sp.GetRequiredService<ServingModelWatch>());
 
         s.AddIdentityCore<TriageUser>(o =>
             {
@@ -94,11 +122,30 @@ public static class CasesSetup
         return b;
     }
 
-    /// <summary>Migrates the store and, when it holds no claims yet, loads the demo scenario. Call before <c>Run()</c>.</summary>
+    /// <summary>
+    /// Migrates the store and, when it holds no claims yet, loads the demo scenario. Call before <c>Run()</c>.
+    /// Instances starting together on one PostgreSQL store take turns: the first migrates and seeds, the
+    /// others wait and then find the work done.
+    /// </summary>
     public static async Task InitialiseStoreAsync(this IServiceProvider services, CancellationToken ct = default)
     {
         await using var scope = services.CreateAsyncScope();
-        await scope.ServiceProvider.GetRequiredService<StoreInitialiser>().InitialiseAsync(ct);
+        var sp = scope.ServiceProvider;
+        var db = sp.GetRequiredService<TriageDbContext>();
+        // The lock lives in the database, so a database that does not exist yet is created (empty) first.
+        if (db.Database.IsNpgsql() && !await db.Database.CanConnectAsync(ct))
+        {
+            try
+            {
+                await db.GetService<IRelationalDatabaseCreator>().CreateAsync(ct);
+            }
+            catch (Npgsql.PostgresException e) when (e.SqlState == Npgsql.PostgresErrorCodes.DuplicateDatabase)
+            {
+                // Another instance created it a moment ago.
+            }
+        }
+        using var turn = await sp.GetRequiredService<IClusterLocks>().AcquireAsync(ClusterLock.FirstStart, ct);
+        await sp.GetRequiredService<StoreInitialiser>().InitialiseAsync(ct);
     }
 
     private static string SqliteConnection(IServiceProvider sp)

@@ -4,6 +4,7 @@ using Microsoft.Extensions.Logging;
 using Microsoft.Extensions.Options;
 using Triage.Cases.Domain;
 using Triage.Cases.FirstStart;
+using Triage.Cases.Operations;
 using Triage.Cases.Options;
 using Triage.Cases.Queue;
 using Triage.Cases.Store;
@@ -26,7 +27,8 @@ public sealed class ClaimIntake(
     IOptions<QueueOptions> queue,
     AuditSampler sampler,
     TimeProvider clock,
-    ILogger<ClaimIntake> log)
+    ILogger<ClaimIntake> log,
+    TriageMetrics metrics)
 {
     private const int Attempts = 3;
 
@@ -63,6 +65,7 @@ public sealed class ClaimIntake(
                 { OverRowLimit = check.OverRowLimit, Timings = phases.Timings() };
         }
         var (stored, queued) = await StoreAsync(source, model, version, check, by, now, phases, progress, ct);
+        metrics.ClaimsIngested(stored);
         var timings = phases.Timings();
         log.LogInformation("Import of {Source} took {Total}: checking {Checking}, scoring and explaining {Scoring}, writing {Writing}",
             source.Name, timings.Total, timings.Checking, timings.Scoring, timings.Writing);

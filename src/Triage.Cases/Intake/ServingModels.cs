@@ -7,10 +7,18 @@ using Triage.Scoring.Models;
 
 namespace Triage.Cases.Intake;
 
-/// <summary>The model that scores arriving claims, loaded once per version and shared (models are thread-safe).</summary>
+/// <summary>
+/// The model that scores arriving claims, loaded once per version and shared (models are thread-safe). Which
+/// version serves is read from the store on every call, so every instance sharing the store switches with
+/// the registry's transaction; a model is used only once its whole file is loaded.
+/// </summary>
 public sealed class ServingModels(TriagePaths paths)
 {
     private readonly ConcurrentDictionary<string, Lazy<ScoringModel>> _loaded = new();
+    private volatile string? _version;
+
+    /// <summary>The serving version this instance last loaded, or null before the first load (or when none serves).</summary>
+    public string? Version => _version;
 
     public async Task<(ModelVersion Version, ScoringModel Model)> CurrentAsync(TriageDbContext db, CancellationToken ct)
     {
@@ -18,12 +26,23 @@ public sealed class ServingModels(TriagePaths paths)
             ?? throw new IntakeUnavailableException("No model is serving, so arriving claims cannot be scored; train and promote a model first.");
         try
         {
-            return (serving, Load(serving));
+            var model = Load(serving);
+            _version = serving.Version;
+            return (serving, model);
         }
         catch (Exception e) when (e is IOException or InvalidDataException)
         {
             throw new IntakeUnavailableException($"The serving model {serving.Version} cannot be read from '{Path.Combine(paths.DataFolder, serving.FilePath)}': {e.Message}");
         }
+    }
+
+    /// <summary>Loads the serving version if it is not loaded yet; returns it, or null when no model serves.</summary>
+    public async Task<string?> RefreshAsync(TriageDbContext db, CancellationToken ct)
+    {
+        var serving = await db.ModelVersions.AsNoTracking().SingleOrDefaultAsync(m => m.IsServing, ct);
+        if (serving is not null) Load(serving);
+        _version = serving?.Version;
+        return _version;
     }
 
     /// <summary>

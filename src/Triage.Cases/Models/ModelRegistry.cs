@@ -1,6 +1,7 @@
 using System.Text.Json;
 using Microsoft.EntityFrameworkCore;
 using Triage.Cases.Domain;
+using Triage.Cases.Instances;
 using Triage.Cases.Intake;
 using Triage.Cases.Store;
 using Triage.Scoring.Metrics;
@@ -17,9 +18,10 @@ public sealed record ServingChange(string Serving, string? Replaced, int CasesRe
 /// <summary>
 /// The model page's service: lists the versions, promotes a challenger or rolls back to a version that
 /// served before. The switch is one transaction and the new model's file is loaded in full first, so the
-/// next claim scored after the commit uses the whole new model and no request ever sees a mix.
+/// next claim scored after the commit uses the whole new model and no request ever sees a mix. Other
+/// instances read the same serving row; a notice tells them to load the new model's file right away.
 /// </summary>
-public sealed class ModelRegistry(TriageDbContext db, ServingModels serving, TimeProvider clock)
+public sealed class ModelRegistry(TriageDbContext db, ServingModels serving, IInstanceNotices others, InstanceId self, TimeProvider clock)
 {
     public static readonly string[] MayView = [Roles.Analyst, Roles.Admin, Roles.Manager];
     public static readonly string[] MayChange = [Roles.Analyst, Roles.Admin];
@@ -83,6 +85,8 @@ public sealed class ModelRegistry(TriageDbContext db, ServingModels serving, Tim
             (rescore ? $"; {rescored} open cases re-scored" : ""), now));
         await db.SaveChangesAsync(ct);
         await tx.CommitAsync(ct);
+        await serving.RefreshAsync(db, ct);
+        others.Send(new InstanceNotice(self.Value, rollBack ? "model.rolled-back" : "model.promoted", Model: target.Version));
         return new ServingChange(target.Version, current?.Version, rescored);
     }
 

@@ -1,10 +1,12 @@
 using System.ComponentModel.DataAnnotations;
 using System.Text.Json;
 using System.Threading.Channels;
+using Microsoft.EntityFrameworkCore;
 using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.Hosting;
 using Microsoft.Extensions.Options;
 using Triage.Cases.Domain;
+using Triage.Cases.Instances;
 using Triage.Cases.Store;
 using Triage.Scoring;
 
@@ -13,10 +15,11 @@ namespace Triage.Cases.Models;
 /// <summary>
 /// Starts and cancels retrains for analysts and admins. A retrain from the app runs in the background
 /// (<see cref="RetrainWorker"/>); the command line runs one in the foreground through <see cref="RunAsync"/>.
-/// Either way only one runs at a time in a process.
+/// Either way only one runs at a time: in a process through <see cref="RetrainState"/>, across instances
+/// sharing a PostgreSQL store through a cluster lock the run holds until it finishes.
 /// </summary>
 public sealed class RetrainService(RetrainState state, RetrainQueue queue, IServiceScopeFactory scopes, TriageDbContext db,
-    IOptions<ScoringOptions> defaults, TimeProvider clock)
+    IClusterLocks locks, InstanceId self, IOptions<ScoringOptions> defaults, TimeProvider clock)
 {
     public static readonly string[] MayRetrain = [Roles.Analyst, Roles.Admin];
 
@@ -41,7 +44,8 @@ public sealed class RetrainService(RetrainState state, RetrainQueue queue, IServ
     public async Task CancelAsync(Actor by, CancellationToken ct = default)
     {
         by.Require("cancel a retrain", MayRetrain);
-        var run = state.Current ?? throw new DomainRuleException("No retrain is running.");
+        // A run belongs to the instance that started it; with several instances, cancel it there.
+        var run = state.Current ?? throw new DomainRuleException("No retrain is running on this instance.");
         if (!state.RequestCancel()) throw new DomainRuleException("No retrain is running.");
         db.AuditEvents.Add(new AuditEvent(by.UserName, "model.retrain-cancel", $"asked to cancel the retrain started by {run.StartedBy}", Now));
         await db.SaveChangesAsync(ct);
@@ -55,9 +59,10 @@ public sealed class RetrainService(RetrainState state, RetrainQueue queue, IServ
         if (!state.TryBegin(by.UserName, settings.Trainer, Now, out var run, out var token))
             throw new DomainRuleException($"A retrain started by {run.StartedBy} at {run.StartedAt:HH:mm} UTC is still running ({run.Stage.ToLowerInvariant()}); " +
                 "only one runs at a time. Wait for it to finish or cancel it.");
+        await HoldClusterLockAsync(run, ct);
         try
         {
-            db.AuditEvents.Add(new AuditEvent(by.UserName, "model.retrain-started", $"{settings.Trainer}, holdout {settings.HoldoutMonths} months", Now));
+            db.AuditEvents.Add(new AuditEvent(by.UserName, "model.retrain-started", $"{settings.Trainer}, holdout {settings.HoldoutMonths} months, on {self}", Now));
             await db.SaveChangesAsync(ct);
         }
         catch (Exception e)
@@ -66,6 +71,33 @@ public sealed class RetrainService(RetrainState state, RetrainQueue queue, IServ
             throw;
         }
         return (run, token);
+    }
+
+    /// <summary>Takes the lock no other instance may retrain under, or frees this process's slot and says who holds it.</summary>
+    private async Task HoldClusterLockAsync(RetrainRun run, CancellationToken ct)
+    {
+        IDisposable? held;
+        try
+        {
+            held = await locks.TryAcquireAsync(ClusterLock.Retrain, ct);
+        }
+        catch
+        {
+            state.Abandon(run.Id);
+            throw;
+        }
+        if (held is not null)
+        {
+            state.Hold(run.Id, held);
+            return;
+        }
+        state.Abandon(run.Id);
+        // The holder wrote its "started" event right after taking the lock, so the latest one is almost surely its.
+        var started = await db.AuditEvents.AsNoTracking().Where(a => a.What == "model.retrain-started")
+            .OrderByDescending(a => a.At).ThenByDescending(a => a.Id).FirstOrDefaultAsync(ct);
+        var who = started is null ? "" : $" (started by {started.Who} at {started.At:HH:mm} UTC)";
+        throw new DomainRuleException($"A retrain is already running on another instance{who}; only one runs at a time across instances. " +
+            "Wait for it to finish, or cancel it on the instance that runs it.");
     }
 
     /// <summary>The same rules the "Scoring" section is held to on start.</summary>

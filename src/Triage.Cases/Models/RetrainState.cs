@@ -1,3 +1,4 @@
+using Triage.Cases.Operations;
 using Triage.Scoring;
 
 namespace Triage.Cases.Models;
@@ -12,12 +13,14 @@ public sealed record RetrainResult(Guid Id, RetrainOutcome Outcome, string Messa
 
 /// <summary>
 /// One retrain at a time for this process: <see cref="TryBegin"/> takes the only slot, progress and
-/// cancellation go through here, and pages listen to <see cref="Changed"/>.
+/// cancellation go through here, and pages listen to <see cref="Changed"/>. The run also holds the lock
+/// that keeps other instances from retraining (<see cref="Hold"/>) until it finishes.
 /// </summary>
-public sealed class RetrainState
+public sealed class RetrainState(TriageMetrics metrics)
 {
     private readonly Lock _gate = new();
     private CancellationTokenSource? _cancel;
+    private IDisposable? _clusterLock;
 
     public RetrainRun? Current { get; private set; }
     public RetrainResult? Last { get; private set; }
@@ -41,6 +44,34 @@ public sealed class RetrainState
         }
         Changed?.Invoke();
         return true;
+    }
+
+    /// <summary>Keeps the cross-instance lock for run <paramref name="id"/>; it is released when the run finishes.</summary>
+    internal void Hold(Guid id, IDisposable clusterLock)
+    {
+        lock (_gate)
+        {
+            if (Current?.Id == id && _clusterLock is null)
+            {
+                _clusterLock = clusterLock;
+                return;
+            }
+        }
+        clusterLock.Dispose();
+    }
+
+    /// <summary>Frees the slot of a run that never started (another instance is retraining): no result is recorded.</summary>
+    internal void Abandon(Guid id)
+    {
+        IDisposable? held;
+        lock (_gate)
+        {
+            if (Current?.Id != id) return;
+            Current = null;
+            held = Release();
+        }
+        held?.Dispose();
+        Changed?.Invoke();
     }
 
     internal void Report(Guid id, string stage, double fraction)
@@ -67,14 +98,26 @@ public sealed class RetrainState
 
     internal void Finish(RetrainResult result)
     {
+        IDisposable? held;
         lock (_gate)
         {
             if (Current?.Id != result.Id) return;
             Current = null;
             Last = result;
-            _cancel?.Dispose();
-            _cancel = null;
+            held = Release();
         }
+        held?.Dispose();
+        metrics.RetrainFinished(result.Outcome.ToString());
         Changed?.Invoke();
+    }
+
+    /// <returns>The cross-instance lock to dispose outside the gate (closing its connection may take a moment).</returns>
+    private IDisposable? Release()
+    {
+        _cancel?.Dispose();
+        _cancel = null;
+        var held = _clusterLock;
+        _clusterLock = null;
+        return held;
     }
 }
