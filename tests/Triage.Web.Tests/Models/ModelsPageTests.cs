@@ -6,7 +6,9 @@ using Microsoft.Extensions.DependencyInjection;
 using Microsoft.Extensions.Options;
 using Microsoft.Extensions.Time.Testing;
 using Triage.Cases.Domain;
+using Triage.Cases.Instances;
 using Triage.Cases.Models;
+using Triage.Cases.Operations;
 using Triage.Cases.Store;
 using Triage.Scoring;
 using Triage.Web.Components.Pages.Models;
@@ -22,7 +24,7 @@ namespace Triage.Web.Tests.Models;
 /// </summary>
 public sealed class ModelsPageTests(TriageWebFactory factory) : ComponentTest, IClassFixture<TriageWebFactory>
 {
-    private readonly RetrainState _state = new();
+    private readonly RetrainState _state = new(factory.Services.GetRequiredService<TriageMetrics>());
     private readonly RetrainQueue _queue = new();
     // The tests here share one store and the list is newest first: each test's clock starts a day after the
     // last one's (xunit makes the instance just before running the test), all later than anything the seed wrote.
@@ -30,7 +32,8 @@ public sealed class ModelsPageTests(TriageWebFactory factory) : ComponentTest, I
     private readonly FakeTimeProvider _clock = new(new DateTimeOffset(2031, 3, 2, 9, 0, 0, TimeSpan.Zero).AddDays(Interlocked.Increment(ref _tests)));
 
     private RetrainService Service(IServiceProvider app) => new(_state, _queue, app.GetRequiredService<IServiceScopeFactory>(),
-        app.GetRequiredService<TriageDbContext>(), app.GetRequiredService<IOptions<ScoringOptions>>(), _clock);
+        app.GetRequiredService<TriageDbContext>(), app.GetRequiredService<IClusterLocks>(), app.GetRequiredService<InstanceId>(),
+        app.GetRequiredService<IOptions<ScoringOptions>>(), _clock);
 
     private async Task<Actor> AnalystAsync()
     {
