@@ -26,7 +26,7 @@ public sealed class VerdictRaceTests(ITestOutputHelper output)
         await AddTeamAsync(store);
         var inReview = await AddAsync(store, Race.Count / 2, InInesReview);
         var closed = await AddAsync(store, Race.Count - Race.Count / 2, ClosedByInes);
-        var explained = 0;
+        int explained = 0, foundNoVerdict = 0;
 
         foreach (var c in inReview)
         {
@@ -38,6 +38,7 @@ public sealed class VerdictRaceTests(ITestOutputHelper output)
             AssertExplained(amend!, $"Case {c.ClaimNumber} has no verdict yet; record one before amending it.",
                 $"Case {c.ClaimNumber} changed after you opened it: ines recorded the verdict NotFraud and closed the case. Nothing of yours was saved");
             explained++;
+            if (amend is DomainRuleException) foundNoVerdict++;
         }
 
         var inesWon = new HashSet<int>();
@@ -76,6 +77,6 @@ public sealed class VerdictRaceTests(ITestOutputHelper output)
             Assert.Equal(expected.Item2, Assert.Single(s.Audit, x => x.What == "verdict.amended").Who);
         }
         output.WriteLine($"{provider}: {Race.Count} races ({inReview.Count} verdict vs amendment on a case in review, {closed.Count} amendment vs amendment on a closed case), " +
-            $"{explained} refusals explained; Ines's amendment won {inesWon.Count}, the lead's {closed.Count - inesWon.Count}");
+            $"{explained} refusals explained ({foundNoVerdict} amendments found no verdict yet, {inReview.Count - foundNoVerdict} found the case closed meanwhile); Ines's amendment won {inesWon.Count}, the lead's {closed.Count - inesWon.Count}");
     }
 }

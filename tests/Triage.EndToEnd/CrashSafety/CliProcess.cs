@@ -47,6 +47,17 @@ public sealed class CliProcess : IDisposable
 
     public Task WaitAsync() => _process.WaitForExitAsync();
 
+    /// <summary>Waits until a line on standard error contains <paramref name="text"/>; false when the process ended first.</summary>
+    public async Task<bool> WaitForErrorLineAsync(string text)
+    {
+        while (!Errors.Contains(text, StringComparison.Ordinal))
+        {
+            if (_process.HasExited) return Errors.Contains(text, StringComparison.Ordinal);
+            await Task.Delay(10);
+        }
+        return true;
+    }
+
     /// <summary>SIGKILL; returns false when the process had already ended by itself.</summary>
     public async Task<bool> KillAsync()
     {

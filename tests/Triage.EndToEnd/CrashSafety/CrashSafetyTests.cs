@@ -17,7 +17,9 @@ namespace Triage.EndToEnd.CrashSafety;
 public sealed class CrashSafetyTests(CrashTemplate template, ITestOutputHelper output) : IClassFixture<CrashTemplate>
 {
     private const int Kills = 10;
-    private const int BatchSize = 3_000;
+    private const int BatchSize = 2_000;
+    // The stage RetrainRunner reports just before it writes the model file (the CLI prints each stage on standard error).
+    private const string SavingStage = "Saving the challenger";
     private static readonly int Seed = int.TryParse(Environment.GetEnvironmentVariable("TRIAGE_CRASH_SEED"), out var s) ? s : 20261202;
 
     [Fact]
@@ -53,7 +55,7 @@ public sealed class CrashSafetyTests(CrashTemplate template, ITestOutputHelper o
             await app.StartAsync();
 
             var (claims, scored) = batch.Stored(store);
-            output.WriteLine($"kill {attempt} at {at.TotalSeconds:0.000} s: {(midway ? "mid-import" : "after the import had answered")}; afterwards {claims} of {BatchSize} claims stored");
+            output.WriteLine($"kill {attempt} at {at.TotalSeconds:0.000} s{(atSave ? $" after '{SavingStage}'" : "")}: {(midway ? "mid-import" : "after the import had answered")}; afterwards {claims} of {BatchSize} claims stored");
             Assert.Equal("ok", store.IntegrityCheck());
             Assert.Equal(0, store.ForeignKeyViolations());
             Assert.True(claims is 0 or BatchSize, $"batch {batch.Prefix} is half stored: {claims} of {BatchSize} claims (kill at {at.TotalSeconds:0.000} s, seed {Seed})");
@@ -94,15 +96,18 @@ public sealed class CrashSafetyTests(CrashTemplate template, ITestOutputHelper o
         var killed = 0;
         for (var attempt = 1; killed < Kills && attempt <= 2 * Kills; attempt++)
         {
-            // Half the moments anywhere in the run, half in its last quarter, where the file is written and registered.
-            var at = window * (attempt % 2 == 1 ? random.NextDouble() : 0.75 + 0.25 * random.NextDouble());
+            // Two moments in three anywhere in the run; every third one within 300 ms after the retrain says it is
+            // saving, where the file is written, renamed and registered (a window too short for a draw over the run).
+            var atSave = attempt % 3 == 0;
+            var at = atSave ? TimeSpan.FromMilliseconds(300 * random.NextDouble()) : window * random.NextDouble();
             using var cli = CliProcess.Start(folder, template.Settings, retrain);
+            if (atSave) await cli.WaitForErrorLineAsync(SavingStage);
             await Task.Delay(at);
             // The whole app goes down at once, as on a crash of the server: the retrain and the web app.
             var midway = await cli.KillAsync();
             await app.KillAsync();
             if (midway) killed++;
-            output.WriteLine($"kill {attempt} at {at.TotalSeconds:0.000} s: {(midway ? "mid-retrain" : $"after the retrain ended (exit {cli.ExitCode})")}; " +
+            output.WriteLine($"kill {attempt} at {at.TotalSeconds:0.000} s{(atSave ? $" after '{SavingStage}'" : "")}: {(midway ? "mid-retrain" : $"after the retrain ended (exit {cli.ExitCode})")}; " +
                 $"last stage: {cli.Errors.Trim().Split('\n')[^1]}");
             await app.StartAsync();
             await CheckModelsAsync(store, app, http, $"CRASH-R{attempt:D2}-", $"kill {attempt} at {at.TotalSeconds:0.000} s, seed {Seed + 1}");
