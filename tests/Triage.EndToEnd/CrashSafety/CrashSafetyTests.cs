@@ -55,7 +55,7 @@ public sealed class CrashSafetyTests(CrashTemplate template, ITestOutputHelper o
             await app.StartAsync();
 
             var (claims, scored) = batch.Stored(store);
-            output.WriteLine($"kill {attempt} at {at.TotalSeconds:0.000} s{(atSave ? $" after '{SavingStage}'" : "")}: {(midway ? "mid-import" : "after the import had answered")}; afterwards {claims} of {BatchSize} claims stored");
+            output.WriteLine($"kill {attempt} at {at.TotalSeconds:0.000} s: {(midway ? "mid-import" : "after the import had answered")}; afterwards {claims} of {BatchSize} claims stored");
             Assert.Equal("ok", store.IntegrityCheck());
             Assert.Equal(0, store.ForeignKeyViolations());
             Assert.True(claims is 0 or BatchSize, $"batch {batch.Prefix} is half stored: {claims} of {BatchSize} claims (kill at {at.TotalSeconds:0.000} s, seed {Seed})");
