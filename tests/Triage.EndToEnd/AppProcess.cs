@@ -9,22 +9,43 @@ namespace Triage.EndToEnd;
 /// <summary>
 /// The web app started as a user starts it: <c>dotnet Triage.Web.dll</c> from its build output, with the
 /// repository as its home, a fresh data folder and a free port. First start trains on the full demo.
+/// <see cref="On"/> starts it on a given data folder with extra settings; it can be killed and started again there.
 /// </summary>
 public sealed class AppProcess : IAsyncLifetime
 {
     private static readonly TimeSpan StartTimeout = TimeSpan.FromMinutes(3);
     private readonly StringBuilder _log = new();
+    private readonly IReadOnlyDictionary<string, string> _settings;
+    private readonly bool _ownsDataFolder;
     private Process? _process;
 
+    public AppProcess() : this(Path.Combine(Path.GetTempPath(), "triage-e2e", Guid.NewGuid().ToString("N")), new Dictionary<string, string>(), true) { }
+
+    private AppProcess(string dataFolder, IReadOnlyDictionary<string, string> settings, bool ownsDataFolder)
+    {
+        DataFolder = dataFolder;
+        _settings = settings;
+        _ownsDataFolder = ownsDataFolder;
+        BaseUrl = new Uri($"http://127.0.0.1:{FreePort()}");
+    }
+
+    /// <summary>Not started yet; the caller owns the data folder. <paramref name="settings"/> are environment variables (<c>Demo__SeedFolder</c>, ...).</summary>
+    public static AppProcess On(string dataFolder, IReadOnlyDictionary<string, string>? settings = null) =>
+        new(dataFolder, settings ?? new Dictionary<string, string>(), false);
+
     public static string RepoRoot { get; } = FindRepoRoot();
-    public string DataFolder { get; } = Path.Combine(Path.GetTempPath(), "triage-e2e", Guid.NewGuid().ToString("N"));
-    public Uri BaseUrl { get; private set; } = default!;
+    public string DataFolder { get; }
+    public Uri BaseUrl { get; }
     public string Log { get { lock (_log) return _log.ToString(); } }
 
-    public async Task InitializeAsync()
+    public Task InitializeAsync() => StartAsync();
+
+    /// <summary>Starts the app (again, after <see cref="KillAsync"/>) and waits until it answers the sign-in page.</summary>
+    public async Task StartAsync()
     {
+        if (_process is { HasExited: false }) throw new InvalidOperationException("The app is running already.");
+        _process?.Dispose();
         var dll = WebDll();
-        BaseUrl = new Uri($"http://127.0.0.1:{FreePort()}");
         var start = new ProcessStartInfo("dotnet", [dll])
         {
             WorkingDirectory = Path.GetDirectoryName(dll)!,
@@ -37,6 +58,7 @@ public sealed class AppProcess : IAsyncLifetime
         start.Environment["Urls"] = BaseUrl.ToString().TrimEnd('/');
         // Static web assets are served from the build output only in Development (see the stack notes).
         start.Environment["ASPNETCORE_ENVIRONMENT"] = "Development";
+        foreach (var (key, value) in _settings) start.Environment[key] = value;
         _process = Process.Start(start) ?? throw new InvalidOperationException("dotnet did not start.");
         _process.OutputDataReceived += (_, e) => Append(e.Data);
         _process.ErrorDataReceived += (_, e) => Append(e.Data);
@@ -69,23 +91,30 @@ public sealed class AppProcess : IAsyncLifetime
         throw new TimeoutException($"The app did not answer on {BaseUrl} within {StartTimeout.TotalSeconds:0} s:\n{Log}");
     }
 
+    /// <summary>SIGKILL, as a crash or a power cut looks to the process: no shutdown code runs.</summary>
+    public async Task KillAsync()
+    {
+        if (_process is not { HasExited: false }) return;
+        _process.Kill(entireProcessTree: true);
+        await _process.WaitForExitAsync();
+    }
+
     public async Task DisposeAsync()
     {
-        if (_process is { HasExited: false })
-        {
-            _process.Kill(entireProcessTree: true);
-            await _process.WaitForExitAsync();
-        }
+        await KillAsync();
         _process?.Dispose();
+        if (!_ownsDataFolder) return;
         try { Directory.Delete(DataFolder, recursive: true); } catch (IOException) { /* a file still open */ }
     }
 
-    // The same configuration as this test build (Debug or Release).
-    private static string WebDll()
+    private static string WebDll() => BuiltDll("Triage.Web", "Triage.Web.dll");
+
+    /// <summary>A project's build output in the same configuration as this test build (Debug or Release).</summary>
+    public static string BuiltDll(string project, string file)
     {
         var configuration = typeof(AppProcess).Assembly.GetCustomAttribute<AssemblyConfigurationAttribute>()?.Configuration ?? "Debug";
-        var dll = Path.Combine(RepoRoot, "src", "Triage.Web", "bin", configuration, "net10.0", "Triage.Web.dll");
-        return File.Exists(dll) ? dll : throw new FileNotFoundException($"Build the web app first: {dll} is missing.", dll);
+        var dll = Path.Combine(RepoRoot, "src", project, "bin", configuration, "net10.0", file);
+        return File.Exists(dll) ? dll : throw new FileNotFoundException($"Build {project} first: {dll} is missing.", dll);
     }
 
     private static int FreePort()

@@ -39,7 +39,8 @@ public sealed class StoreInitialiser(
     public async Task InitialiseAsync(CancellationToken ct)
     {
         var watch = Stopwatch.StartNew();
-        await db.Database.MigrateAsync(ct);
+        if (db.Database.IsSqlite()) await SqliteMigrationGate.MigrateAsync(db, log, ct);
+        else await db.Database.MigrateAsync(ct);
         log.LogInformation("Store migrated ({Provider}) in {Ms} ms", db.Database.ProviderName, watch.ElapsedMilliseconds);
         if (await db.Claims.AnyAsync(ct))
         {

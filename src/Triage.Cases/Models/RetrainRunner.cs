@@ -69,7 +69,7 @@ public sealed class RetrainRunner(TriageDbContext db, ModelTrainer trainer, Serv
             Report("Saving the challenger", 0.95);
             Directory.CreateDirectory(paths.ModelsFolder);
             var target = Path.Combine(paths.ModelsFolder, $"{version}.model");
-            if (File.Exists(target)) throw new IOException($"A model file '{target}' exists already; it belongs to no registered version. Move it away and retrain.");
+            ClearLeftovers(target);
             file = target;
             model.Save(file);
             token.ThrowIfCancellationRequested();
@@ -104,6 +104,21 @@ public sealed class RetrainRunner(TriageDbContext db, ModelTrainer trainer, Serv
     }
 
     private DateTime Now => clock.GetUtcNow().UtcDateTime;
+
+    /// <summary>
+    /// A file under this version's name belongs to no registered version (the name is one past the highest in
+    /// use, and one retrain runs at a time): a retrain stopped hard between saving and registering left it, or
+    /// its half-written temporary file. Without this, every later retrain would refuse that name.
+    /// </summary>
+    private void ClearLeftovers(string target)
+    {
+        var name = Path.GetFileName(target);
+        foreach (var left in Directory.EnumerateFiles(paths.ModelsFolder, $".{name}.*.tmp").Append(target).Where(File.Exists))
+        {
+            log.LogWarning("Removing {File}: left by a retrain that stopped before registering it", left);
+            File.Delete(left);
+        }
+    }
 
     private async Task AuditEndAsync(RetrainJob job, RetrainResult result)
     {
