@@ -43,11 +43,18 @@ public static class ModelComparison
     public const int ImportanceRows = 2_000;
 
     public static ComparisonResult Compare(ScoringModel? champion, ScoringModel challenger, IReadOnlyList<LabelledClaim> holdout, int k,
+        DateOnly? holdoutFrom, CancellationToken ct = default) =>
+        Compare(champion is null ? null : Score(champion, holdout, k, ct), challenger, holdout, k, holdoutFrom, ct);
+
+    /// <summary>
+    /// With the champion's scorecard already made (<see cref="Score"/> on the same holdout rows and k): a retrain
+    /// makes it while the challenger is being fitted, since it needs nothing from the challenger.
+    /// </summary>
+    public static ComparisonResult Compare(Scorecard? a, ScoringModel challenger, IReadOnlyList<LabelledClaim> holdout, int k,
         DateOnly? holdoutFrom, CancellationToken ct = default)
     {
         var y = holdout.Select(r => r.IsFraud).ToList();
-        var a = champion is null ? null : Score(champion, holdout, y, k, ct);
-        var b = Score(challenger, holdout, y, k, ct);
+        var b = Score(challenger, holdout, k, ct);
         var names = new ClaimFeatures(challenger.Schema);
         var importance = challenger.Fields
             .Select(f => new ImportanceRow(f, names.DisplayName(f),
@@ -61,8 +68,10 @@ public static class ModelComparison
     public static IReadOnlyList<string> MostChanged(ComparisonResult c, int count = 3) =>
         [.. c.Importance.Where(r => Math.Abs(r.Change) > 1e-9).OrderByDescending(r => Math.Abs(r.Change)).Take(count).Select(r => r.Field)];
 
-    private static Scorecard Score(ScoringModel model, IReadOnlyList<LabelledClaim> rows, List<bool> y, int k, CancellationToken ct)
+    /// <summary>One model on the holdout rows: metrics at capacity <paramref name="k"/>, calibration deciles, ROC points, importance.</summary>
+    public static Scorecard Score(ScoringModel model, IReadOnlyList<LabelledClaim> rows, int k, CancellationToken ct = default)
     {
+        var y = rows.Select(r => r.IsFraud).ToList();
         var p = new double[rows.Count];
         var options = new ParallelOptions { CancellationToken = ct };
         Parallel.For(0, rows.Count, options, i => p[i] = model.Probability(rows[i].Values));
