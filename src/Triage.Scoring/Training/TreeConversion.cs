@@ -65,7 +65,7 @@ internal static class TreeConversion
                 var sum = ensemble.Bias;
                 for (var t = 0; t < trees.Count; t++)
                 {
-                    var leaf = trees[t].LeafOf(x);
+                    var leaf = LeafOf(trees[t], x);
                     covers[t][leaf] += w;
                     sum += ensemble.TreeWeights[t] * trees[t].LeafValue[leaf];
                 }
@@ -85,6 +85,19 @@ internal static class TreeConversion
             if (tree.InternalCount > 0) Recount(tree, 0);
         }
         return logOdds;
+    }
+
+    /// <summary>
+    /// <see cref="RegressionTree.LeafOf"/> for a converted ML.NET tree, whose splits all compare as is
+    /// (<see cref="MissingRouting.Compare"/>: go left when value &lt;= threshold, NaN goes right).
+    /// </summary>
+    private static int LeafOf(RegressionTree tree, double[] x)
+    {
+        if (tree.InternalCount == 0) return 0;
+        var (feature, threshold, left, right) = (tree.SplitFeature, tree.Threshold, tree.Left, tree.Right);
+        var node = 0;
+        while (node >= 0) node = x[feature[node]] <= threshold[node] ? left[node] : right[node];
+        return ~node;
     }
 
     private static double Recount(RegressionTree tree, int node) =>
