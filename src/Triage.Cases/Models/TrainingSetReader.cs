@@ -81,14 +81,17 @@ public sealed class TrainingSetReader(TriageDbContext db)
 
     private sealed record Unparsed(string ClaimJson, string? SnapshotJson, bool IsFraud, double Weight);
 
-    private static LabelledClaim[] Parse(List<Unparsed> rows, ClaimJsonReader json, HashSet<string> fields) =>
-        [.. rows.Select(r => new LabelledClaim(Values(json, r.ClaimJson, r.SnapshotJson, fields), r.IsFraud, r.Weight))];
-
-    private static Dictionary<string, string?> Values(ClaimJsonReader json, string claimJson, string? snapshotJson, HashSet<string> fields)
+    private static LabelledClaim[] Parse(List<Unparsed> rows, ClaimJsonReader json, HashSet<string> fields)
     {
-        var values = json.Read(claimJson);
+        var batch = new ClaimJsonReader.Batch();
+        return [.. rows.Select(r => new LabelledClaim(Values(json, batch, r.ClaimJson, r.SnapshotJson, fields), r.IsFraud, r.Weight))];
+    }
+
+    private static Dictionary<string, string?> Values(ClaimJsonReader json, ClaimJsonReader.Batch batch, string claimJson, string? snapshotJson, HashSet<string> fields)
+    {
+        var values = json.Read(claimJson, batch);
         if (snapshotJson is null) return values;
-        foreach (var (k, v) in json.Read(snapshotJson))
+        foreach (var (k, v) in json.Read(snapshotJson, batch))
             if (fields.Contains(k)) values[k] = v;
         return values;
     }
