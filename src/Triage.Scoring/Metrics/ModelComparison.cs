@@ -42,15 +42,11 @@ public static class ModelComparison
     /// </summary>
     public const int ImportanceRows = 2_000;
 
-    public static ComparisonResult Compare(ScoringModel? champion, ScoringModel challenger, IReadOnlyList<LabelledClaim> holdout, int k,
-        DateOnly? holdoutFrom, CancellationToken ct = default) =>
-        Compare(champion is null ? null : Score(champion, holdout, k, ct), challenger, holdout, k, holdoutFrom, ct);
-
     /// <summary>
-    /// With the champion's scorecard already made (<see cref="Score"/> on the same holdout rows and k): a retrain
-    /// makes it while the challenger is being fitted, since it needs nothing from the challenger.
+    /// The challenger against the champion's scorecard (<see cref="Score"/> on the same holdout rows and k; null
+    /// when nothing serves): a retrain makes that scorecard while the challenger is fitted, as it needs nothing from it.
     /// </summary>
-    public static ComparisonResult Compare(Scorecard? a, ScoringModel challenger, IReadOnlyList<LabelledClaim> holdout, int k,
+    public static ComparisonResult Compare(Scorecard? champion, ScoringModel challenger, IReadOnlyList<LabelledClaim> holdout, int k,
         DateOnly? holdoutFrom, CancellationToken ct = default)
     {
         var y = holdout.Select(r => r.IsFraud).ToList();
@@ -58,10 +54,10 @@ public static class ModelComparison
         var names = new ClaimFeatures(challenger.Schema);
         var importance = challenger.Fields
             .Select(f => new ImportanceRow(f, names.DisplayName(f),
-                a?.Importance.GetValueOrDefault(f) ?? 0, b.Importance.GetValueOrDefault(f)))
+                champion?.Importance.GetValueOrDefault(f) ?? 0, b.Importance.GetValueOrDefault(f)))
             .OrderByDescending(r => Math.Max(r.Champion, r.Challenger))
             .ToList();
-        return new ComparisonResult(holdout.Count, y.Count(v => v), holdoutFrom, k, a, b, importance);
+        return new ComparisonResult(holdout.Count, y.Count(v => v), holdoutFrom, k, champion, b, importance);
     }
 
     /// <summary>The fields whose importance moved most (by absolute change), largest first.</summary>

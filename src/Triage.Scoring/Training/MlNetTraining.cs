@@ -16,6 +16,7 @@ internal sealed record FittedModel(ITransformer MlNet, TreeEnsemble? Trees, Line
 /// FastTree carries its own Platt calibrator; FastForest gets a Platt calibrator fitted on its
 /// training scores; L-BFGS logistic regression's calibrator is the logistic link itself, a Platt
 /// sigmoid with slope −1 and offset 0 fitted jointly with the weights by maximum likelihood.
+/// <c>fitted</c> is called once ML.NET's part is done, before the conversion for the explainers.
 /// </summary>
 internal static class MlNetTraining
 {

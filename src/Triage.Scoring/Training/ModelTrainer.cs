@@ -42,7 +42,7 @@ public sealed class ModelTrainer(IOptions<ScoringOptions> options)
         ct.ThrowIfCancellationRequested();
 
         // What needs no fitted model (the rows' fingerprint, field statistics, the fields' drift bins) is worked
-        // out beside the ML.NET fit, which does not keep every core busy all the way through.
+        // out beside the ML.NET fit rather than after it.
         var beside = Task.Run(() => (
             Hash: TrainingDataHash.Compute(schema, rows),
             Stats: FieldStats.Compute(schema, [.. train.Select(r => r.Values)]),
@@ -53,7 +53,7 @@ public sealed class ModelTrainer(IOptions<ScoringOptions> options)
         {
             progress?.Report(new("Training", 0.1));
             fitted = MlNetTraining.Fit(ml, kind, o, trainX, [.. train.Select(r => r.IsFraud)], [.. train.Select(r => r.Weight)], layout.Count,
-                () => progress?.Report(new("Counting node covers", 0.7)));
+                () => progress?.Report(new("Preparing the explainer", 0.7)));
             ct.ThrowIfCancellationRequested();
         }
         catch
