@@ -8,6 +8,7 @@ using Triage.Cases.Store;
 using Triage.Scoring;
 using Triage.Scoring.Features;
 using Triage.Scoring.Metrics;
+using Triage.Scoring.Models;
 using Triage.Scoring.Training;
 
 namespace Triage.Cases.Models;
@@ -53,17 +54,31 @@ public sealed class RetrainRunner(TriageDbContext db, ModelTrainer trainer, Serv
             log.LogInformation("Retrain {Version}: {Rows} labelled rows ({History} history, {Verdicts} verdicts, {Audit} audit sample)",
                 version, set.Rows.Count, set.FromHistory, set.FromVerdicts, set.AuditSample);
 
-            var progress = new SyncProgress<TrainingProgress>(p => Report(p.Stage, 0.05 + 0.7 * p.Fraction));
-            var request = new TrainingRequest(version, job.Settings.Trainer, job.By.UserName, job.Settings);
-            var model = await Task.Run(() => trainer.Train(schema, set.Rows, request, progress, token), token);
-            token.ThrowIfCancellationRequested();
-
-            Report("Comparing with the serving model", 0.8);
+            if (set.Rows.Count == 0) throw new InvalidDataException("There are no labelled claims to train on.");
+            // The champion's scorecard on the holdout needs nothing from the challenger: it is made while the challenger is fitted.
             var (_, holdoutIndex) = TimeSplit.Split(schema, set.Rows, job.Settings.HoldoutMonths);
             var holdout = holdoutIndex.Select(i => set.Rows[i]).ToList();
             var from = holdout.Select(r => ClaimValues.Date(r.Values, schema.Roles.ReportDate)).Min();
             var k = await DailyCapacityAsync(token);
-            var comparison = await Task.Run(() => ModelComparison.Compare(champion, model, holdout, k, from, token), token);
+            var championCard = Task.Run(() => ModelComparison.Score(champion, holdout, k, token), token);
+
+            var progress = new SyncProgress<TrainingProgress>(p => Report(p.Stage, 0.05 + 0.7 * p.Fraction));
+            var request = new TrainingRequest(version, job.Settings.Trainer, job.By.UserName, job.Settings);
+            ScoringModel model;
+            try
+            {
+                model = await Task.Run(() => trainer.Train(schema, set.Rows, request, progress, token), token);
+                token.ThrowIfCancellationRequested();
+            }
+            catch
+            {
+                // Leave nothing running behind a failed or cancelled training; its own failure is the one to report.
+                await championCard.ContinueWith(_ => { }, CancellationToken.None, TaskContinuationOptions.None, TaskScheduler.Default);
+                throw;
+            }
+
+            Report("Comparing with the serving model", 0.8);
+            var comparison = await Task.Run(async () => ModelComparison.Compare(await championCard, model, holdout, k, from, token), token);
             token.ThrowIfCancellationRequested();
 
             Report("Saving the challenger", 0.95);

@@ -1,4 +1,3 @@
-using System.Text.Json;
 using Microsoft.EntityFrameworkCore;
 using Triage.Cases.Domain;
 using Triage.Cases.Store;
@@ -19,20 +18,35 @@ public sealed record TrainingSet(IReadOnlyList<LabelledClaim> Rows, int FromHist
 /// </summary>
 public sealed class TrainingSetReader(TriageDbContext db)
 {
+    /// <summary>Rows handed to the JSON parser at a time, on a worker, while the next rows are read from the store.</summary>
+    private const int BatchRows = 2_000;
+
     public async Task<TrainingSet> ReadAsync(ClaimSchema schema, CancellationToken ct)
     {
         var fields = schema.Fields.Select(f => f.Name).ToHashSet();
-        var rows = new List<LabelledClaim>();
+        var json = new ClaimJsonReader(schema);
+        var parsing = new List<Task<LabelledClaim[]>>();
+        var batch = new List<Unparsed>(BatchRows);
+        void Add(Unparsed row)
+        {
+            batch.Add(row);
+            if (batch.Count < BatchRows) return;
+            // Parsing the JSON is most of the work: it runs beside the store read, batches kept in order.
+            var full = batch;
+            parsing.Add(Task.Run(() => Parse(full, json, fields), ct));
+            batch = new List<Unparsed>(BatchRows);
+        }
 
         var history = db.Claims.AsNoTracking()
             .Where(c => c.Outcome == VerdictOutcome.ConfirmedFraud || c.Outcome == VerdictOutcome.NotFraud)
             .Where(c => !db.Cases.Any(k => k.ClaimId == c.Id))
             .Select(c => new { c.FieldValuesJson, c.Outcome });
-        var settled = await history.ToListAsync(ct);
-        // Parsing the JSON is most of the work: spread it over the cores, keeping the order.
-        rows.AddRange(settled.AsParallel().AsOrdered().WithCancellation(ct)
-            .Select(c => new LabelledClaim(Values(c.FieldValuesJson, null, fields), c.Outcome == VerdictOutcome.ConfirmedFraud)));
-        var fromHistory = settled.Count;
+        var fromHistory = 0;
+        await foreach (var c in history.AsAsyncEnumerable().WithCancellation(ct))
+        {
+            Add(new Unparsed(c.FieldValuesJson, null, c.Outcome == VerdictOutcome.ConfirmedFraud, 1.0));
+            fromHistory++;
+        }
 
         var closed = db.Cases.AsNoTracking()
             .Where(c => !c.IsOpen)
@@ -56,17 +70,28 @@ public sealed class TrainingSetReader(TriageDbContext db)
                 weight = 1 / c.SelectionProbability;
                 audit++;
             }
-            rows.Add(new LabelledClaim(Values(c.FieldValuesJson, c.ScoredValuesJson, fields), c.Outcome == VerdictOutcome.ConfirmedFraud, weight));
+            Add(new Unparsed(c.FieldValuesJson, c.ScoredValuesJson, c.Outcome == VerdictOutcome.ConfirmedFraud, weight));
             fromVerdicts++;
         }
+        parsing.Add(Task.FromResult(Parse(batch, json, fields)));
+        var rows = new List<LabelledClaim>(fromHistory + fromVerdicts);
+        foreach (var parsed in await Task.WhenAll(parsing)) rows.AddRange(parsed);
         return new TrainingSet(rows, fromHistory, fromVerdicts, audit, inconclusive);
     }
 
-    private static Dictionary<string, string?> Values(string claimJson, string? snapshotJson, HashSet<string> fields)
+    private sealed record Unparsed(string ClaimJson, string? SnapshotJson, bool IsFraud, double Weight);
+
+    private static LabelledClaim[] Parse(List<Unparsed> rows, ClaimJsonReader json, HashSet<string> fields)
     {
-        var values = JsonSerializer.Deserialize<Dictionary<string, string?>>(claimJson) ?? [];
+        var batch = new ClaimJsonReader.Batch();
+        return [.. rows.Select(r => new LabelledClaim(Values(json, batch, r.ClaimJson, r.SnapshotJson, fields), r.IsFraud, r.Weight))];
+    }
+
+    private static Dictionary<string, string?> Values(ClaimJsonReader json, ClaimJsonReader.Batch batch, string claimJson, string? snapshotJson, HashSet<string> fields)
+    {
+        var values = json.Read(claimJson, batch);
         if (snapshotJson is null) return values;
-        foreach (var (k, v) in JsonSerializer.Deserialize<Dictionary<string, string?>>(snapshotJson) ?? [])
+        foreach (var (k, v) in json.Read(snapshotJson, batch))
             if (fields.Contains(k)) values[k] = v;
         return values;
     }

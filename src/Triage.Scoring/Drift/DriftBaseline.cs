@@ -15,17 +15,32 @@ public sealed record DriftBaseline(int Rows, IReadOnlyList<DriftBins> Fields, Dr
     private const int Deciles = 10;
 
     /// <summary>From the rows a model was fitted on and its probabilities for them.</summary>
-    public static DriftBaseline Compute(ClaimSchema schema, IReadOnlyList<LabelledClaim> rows, IReadOnlyList<double> scores)
+    public static DriftBaseline Compute(ClaimSchema schema, IReadOnlyList<LabelledClaim> rows, IReadOnlyList<double> scores) =>
+        WithScores(FieldBins(schema, rows), rows, scores);
+
+    /// <summary>The feature fields' bins and training shares: they need no model, so training computes them beside the fit.</summary>
+    internal static IReadOnlyList<DriftBins> FieldBins(ClaimSchema schema, IReadOnlyList<LabelledClaim> rows)
+    {
+        var weights = rows.Select(r => r.Weight).ToArray();
+        // Fields are independent: several at once; a number is parsed once and binned from the parsed value.
+        return ParallelMap.Ordered(schema.FeatureNames, name =>
+        {
+            if (Drivers.FieldStats.KindOf(schema, name) != Drivers.StatKind.Number)
+            {
+                var levels = DriftBins.For(schema, name, []);
+                return levels with { Expected = Tally(levels, rows.Select(r => levels.BinOf(schema, r.Values)), weights) };
+            }
+            var values = rows.Select(r => ClaimValues.Numeric(schema, r.Values, name)).ToArray();
+            var bins = DriftBins.For(schema, name, DecileEdges(values, weights));
+            return bins with { Expected = Tally(bins, values.Select(bins.BinOf), weights) };
+        });
+    }
+
+    /// <summary>The baseline from the fields' bins and the model's probabilities for the same rows.</summary>
+    internal static DriftBaseline WithScores(IReadOnlyList<DriftBins> fields, IReadOnlyList<LabelledClaim> rows, IReadOnlyList<double> scores)
     {
         if (rows.Count != scores.Count) throw new ArgumentException($"{rows.Count} rows but {scores.Count} scores.");
         var weights = rows.Select(r => r.Weight).ToArray();
-        var fields = schema.FeatureNames.Select(name =>
-        {
-            var numeric = Drivers.FieldStats.KindOf(schema, name) == Drivers.StatKind.Number;
-            var edges = numeric ? DecileEdges(rows.Select(r => ClaimValues.Numeric(schema, r.Values, name)).ToArray(), weights) : [];
-            var bins = DriftBins.For(schema, name, edges);
-            return bins with { Expected = Tally(bins, rows.Select(r => bins.BinOf(schema, r.Values)), weights) };
-        }).ToList();
         var score = DriftBins.For(null, ScoreName, DecileEdges([.. scores], weights));
         return new DriftBaseline(rows.Count, fields, score with { Expected = Tally(score, scores.Select(score.BinOf), weights) });
     }

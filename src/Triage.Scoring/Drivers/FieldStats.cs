@@ -20,7 +20,7 @@ public sealed record FieldStats(
     IReadOnlyDictionary<string, double>? Shares = null)
 {
     public static IReadOnlyList<FieldStats> Compute(ClaimSchema schema, IReadOnlyList<IReadOnlyDictionary<string, string?>> claims) =>
-        [.. schema.FeatureNames.Select(name => Compute(schema, name, claims))];
+        ParallelMap.Ordered(schema.FeatureNames, name => Compute(schema, name, claims));
 
     private static FieldStats Compute(ClaimSchema schema, string name, IReadOnlyList<IReadOnlyDictionary<string, string?>> claims)
     {

@@ -42,27 +42,32 @@ public static class ModelComparison
     /// </summary>
     public const int ImportanceRows = 2_000;
 
-    public static ComparisonResult Compare(ScoringModel? champion, ScoringModel challenger, IReadOnlyList<LabelledClaim> holdout, int k,
+    /// <summary>
+    /// The challenger against the champion's scorecard (<see cref="Score"/> on the same holdout rows and k; null
+    /// when nothing serves): a retrain makes that scorecard while the challenger is fitted, as it needs nothing from it.
+    /// </summary>
+    public static ComparisonResult Compare(Scorecard? champion, ScoringModel challenger, IReadOnlyList<LabelledClaim> holdout, int k,
         DateOnly? holdoutFrom, CancellationToken ct = default)
     {
         var y = holdout.Select(r => r.IsFraud).ToList();
-        var a = champion is null ? null : Score(champion, holdout, y, k, ct);
-        var b = Score(challenger, holdout, y, k, ct);
+        var b = Score(challenger, holdout, k, ct);
         var names = new ClaimFeatures(challenger.Schema);
         var importance = challenger.Fields
             .Select(f => new ImportanceRow(f, names.DisplayName(f),
-                a?.Importance.GetValueOrDefault(f) ?? 0, b.Importance.GetValueOrDefault(f)))
+                champion?.Importance.GetValueOrDefault(f) ?? 0, b.Importance.GetValueOrDefault(f)))
             .OrderByDescending(r => Math.Max(r.Champion, r.Challenger))
             .ToList();
-        return new ComparisonResult(holdout.Count, y.Count(v => v), holdoutFrom, k, a, b, importance);
+        return new ComparisonResult(holdout.Count, y.Count(v => v), holdoutFrom, k, champion, b, importance);
     }
 
     /// <summary>The fields whose importance moved most (by absolute change), largest first.</summary>
     public static IReadOnlyList<string> MostChanged(ComparisonResult c, int count = 3) =>
         [.. c.Importance.Where(r => Math.Abs(r.Change) > 1e-9).OrderByDescending(r => Math.Abs(r.Change)).Take(count).Select(r => r.Field)];
 
-    private static Scorecard Score(ScoringModel model, IReadOnlyList<LabelledClaim> rows, List<bool> y, int k, CancellationToken ct)
+    /// <summary>One model on the holdout rows: metrics at capacity <paramref name="k"/>, calibration deciles, ROC points, importance.</summary>
+    public static Scorecard Score(ScoringModel model, IReadOnlyList<LabelledClaim> rows, int k, CancellationToken ct = default)
     {
+        var y = rows.Select(r => r.IsFraud).ToList();
         var p = new double[rows.Count];
         var options = new ParallelOptions { CancellationToken = ct };
         Parallel.For(0, rows.Count, options, i => p[i] = model.Probability(rows[i].Values));

@@ -41,10 +41,27 @@ public sealed class ModelTrainer(IOptions<ScoringOptions> options)
         var trainX = trainBase.Select(layout.Complete).ToList();
         ct.ThrowIfCancellationRequested();
 
-        progress?.Report(new("Training", 0.1));
+        // What needs no fitted model (the rows' fingerprint, field statistics, the fields' drift bins) is worked
+        // out beside the ML.NET fit rather than after it.
+        var beside = Task.Run(() => (
+            Hash: TrainingDataHash.Compute(schema, rows),
+            Stats: FieldStats.Compute(schema, [.. train.Select(r => r.Values)]),
+            DriftFields: DriftBaseline.FieldBins(schema, train)), ct);
         var ml = new MLContext(o.Seed);
-        var fitted = MlNetTraining.Fit(ml, kind, o, trainX, [.. train.Select(r => r.IsFraud)], [.. train.Select(r => r.Weight)], layout.Count);
-        ct.ThrowIfCancellationRequested();
+        FittedModel fitted;
+        try
+        {
+            progress?.Report(new("Training", 0.1));
+            fitted = MlNetTraining.Fit(ml, kind, o, trainX, [.. train.Select(r => r.IsFraud)], [.. train.Select(r => r.Weight)], layout.Count,
+                () => progress?.Report(new("Preparing the explainer", 0.7)));
+            ct.ThrowIfCancellationRequested();
+        }
+        catch
+        {
+            // Leave nothing running behind a failed or cancelled fit.
+            try { beside.Wait(CancellationToken.None); } catch (Exception) { /* the fit's own failure is the one to report */ }
+            throw;
+        }
 
         progress?.Report(new("Checking on the holdout", 0.8));
         var holdoutX = Encode(features, holdout, holdoutIdx).Select(layout.Complete).ToList();
@@ -52,11 +69,14 @@ public sealed class ModelTrainer(IOptions<ScoringOptions> options)
         var y = holdout.Select(r => r.IsFraud).ToList();
         var metrics = new HoldoutMetrics(BinaryMetrics.RocAuc(p, y), BinaryMetrics.AveragePrecision(p, y), BinaryMetrics.Brier(p, y), BinaryMetrics.LogLoss(p, y));
 
-        var metadata = new ModelMetadata(request.Version, kind, DateTime.UtcNow, TrainingDataHash.Compute(schema, rows),
+        progress?.Report(new("Recording statistics and the drift baseline", 0.9));
+        var (hash, stats, driftFields) = beside.GetAwaiter().GetResult();
+        var drift = DriftBaseline.WithScores(driftFields, train, [.. fitted.TrainLogOdds.Select(ScoringModel.Sigmoid)]);
+        var metadata = new ModelMetadata(request.Version, kind, DateTime.UtcNow, hash,
             train.Count, holdout.Count, train.Sum(r => r.IsFraud ? r.Weight : 0) / train.Sum(r => r.Weight), metrics, request.TrainedBy);
         var part = new ExplainerPart(layout.Columns, missing, fitted.Trees, fitted.Linear, imputation);
-        var drift = DriftBaseline.Compute(schema, train, [.. trainX.Select(x => ScoringModel.Sigmoid(fitted.Trees?.Predict(x) ?? fitted.Linear!.Predict(x)))]);
-        var model = new ScoringModel(metadata, schema, part, FieldStats.Compute(schema, [.. train.Select(r => r.Values)]), SaveMlNet(ml, fitted, layout.Count), drift);
+        progress?.Report(new("Serialising the ML.NET model", 0.96));
+        var model = new ScoringModel(metadata, schema, part, stats, SaveMlNet(ml, fitted, layout.Count), drift);
         progress?.Report(new("Done", 1.0));
         return model;
     }
