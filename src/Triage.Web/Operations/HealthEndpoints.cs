@@ -20,11 +20,15 @@ public static class HealthEndpoints
     public static WebApplication MapHealthEndpoints(this WebApplication app)
     {
         var ready = new HealthCheckOptions { Predicate = r => r.Tags.Contains(CasesSetup.ReadyTag), ResponseWriter = WriteAsync };
-        app.MapHealthChecks(Live, new HealthCheckOptions { Predicate = _ => false, ResponseWriter = WriteAsync }).AllowAnonymous().DisableRateLimiting();
-        app.MapHealthChecks(Ready, ready).AllowAnonymous().DisableRateLimiting();
-        app.MapHealthChecks(Default, ready).AllowAnonymous().DisableRateLimiting();
+        Probe(app.MapHealthChecks(Live, new HealthCheckOptions { Predicate = _ => false, ResponseWriter = WriteAsync }));
+        Probe(app.MapHealthChecks(Ready, ready));
+        Probe(app.MapHealthChecks(Default, ready));
         return app;
     }
+
+    // Probes only read: GET and HEAD, so no form post reaches them without the antiforgery check.
+    private static void Probe(IEndpointConventionBuilder probe) =>
+        probe.AllowAnonymous().DisableRateLimiting().WithMetadata(new HttpMethodMetadata(["GET", "HEAD"]));
 
     private static Task WriteAsync(HttpContext http, HealthReport report)
     {

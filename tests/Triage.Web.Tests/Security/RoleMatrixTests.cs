@@ -31,6 +31,9 @@ public sealed class RoleMatrixTests(TriageWebFactory factory) : IClassFixture<Tr
         GET    | /queue                          | /queue                          | deny      | allow        | allow     | allow   | allow   | allow
         GET    | /signin                         | /signin                         | allow     | allow        | allow     | allow   | allow   | allow
         GET    | /error                          | /error                          | allow     | allow        | allow     | allow   | allow   | allow
+        GET    | /health                         | /health                         | allow     | allow        | allow     | allow   | allow   | allow
+        GET    | /health/ready                   | /health/ready                   | allow     | allow        | allow     | allow   | allow   | allow
+        GET    | /health/live                    | /health/live                    | allow     | allow        | allow     | allow   | allow   | allow
         GET    | /cases/{Id:int}                 | /cases/{unassigned}             | deny      | allow        | allow     | allow   | allow   | allow
         GET    | /cases/{Id:int}                 | /cases/{own}                    | deny      | allow        | allow     | allow   | allow   | allow
         GET    | /cases/{Id:int}                 | /cases/{colleague}              | deny      | deny         | allow     | allow   | allow   | allow
