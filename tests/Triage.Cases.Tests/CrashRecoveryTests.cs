@@ -29,6 +29,18 @@ public sealed class CrashRecoveryTests
     }
 
     [Fact]
+    public async Task A_new_store_is_created_in_write_ahead_log_mode()
+    {
+        // EF Core turns WAL on only when it creates the file itself; readers then never block the writer
+        // (SQLite docs, "Write-Ahead Logging"). A check before migrating must not create the file first.
+        await using var store = TestStore.Create();
+        await store.Host.Services.InitialiseStoreAsync();
+
+        await using var db = store.NewContext();
+        Assert.Equal("wal", db.Database.SqlQueryRaw<string>("PRAGMA journal_mode").AsEnumerable().Single());
+    }
+
+    [Fact]
     public async Task A_start_waits_while_another_process_migrates_and_then_goes_ahead()
     {
         await using var store = TestStore.Create();

@@ -20,7 +20,9 @@ internal static class SqliteMigrationGate
     {
         var file = new SqliteConnectionStringBuilder(db.Database.GetConnectionString()).DataSource;
         await using var gate = await AcquireAsync(file + ".migrating", log, ct);
-        var hasTable = await db.Database.SqlQueryRaw<int>(HasLockTable).SingleAsync(ct) > 0;
+        // A query on a missing file would create it empty, and EF then skips creating the store itself, which
+        // is where it turns on WAL: a new store has no leftover lock to clear anyway.
+        var hasTable = File.Exists(file) && await db.Database.SqlQueryRaw<int>(HasLockTable).SingleAsync(ct) > 0;
         if (hasTable && await db.Database.ExecuteSqlRawAsync(ClearLockTable, ct) > 0)
             log.LogWarning("Removed a migration lock left in the store by a process that stopped while migrating it");
         await db.Database.MigrateAsync(ct);
