@@ -92,7 +92,8 @@ public sealed class StoreInitialiser(
         var team = demo.Value.Enabled ? await CreateDemoAccountsAsync(Path.Combine(seed, "team.json"), now, ct) : [];
 
         var model = TrainFirstModel(schema, history, modelFile, ct);
-        db.ModelVersions.Add(await RegisterAsync(model, modelFile, now, ct));
+        // Promoted when training has ended, not when the start began: the model list shows it trained, then serving.
+        db.ModelVersions.Add(await RegisterAsync(model, modelFile, clock.GetUtcNow().UtcDateTime, ct));
         log.LogInformation("Model {Version} trained on {Rows} claims, holdout ROC AUC {Auc:0.000} ({Ms} ms)",
             model.Metadata.Version, model.Metadata.TrainingRows, model.Metadata.Holdout.RocAuc, watch.ElapsedMilliseconds);
 
