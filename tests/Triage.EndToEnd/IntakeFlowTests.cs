@@ -4,29 +4,19 @@ using Triage.EndToEnd.Pages;
 namespace Triage.EndToEnd;
 
 /// <summary>An analyst's claims upload in a real browser: a good file, a bad one, the same good one again.</summary>
-public sealed class IntakeFlowTests(AppProcess app) : IClassFixture<AppProcess>, IAsyncLifetime
+public sealed class IntakeFlowTests(AppProcess app) : OneBrowserTest(app)
 {
     // The demo analyst (seed-cases/team.json).
     private const string Analyst = "Anouk Yarrowtor";
     private const int Claims = 1_500;
-    private readonly Browser _browser = new();
-    private IPage _page = default!;
-
-    public async Task InitializeAsync()
-    {
-        await _browser.InitializeAsync();
-        _page = await _browser.Context.NewPageAsync();
-    }
-
-    public Task DisposeAsync() => _browser.DisposeAsync();
 
     [Fact]
     public async Task Upload_new_claims_see_progress_and_summary_then_errors_then_duplicates_and_the_queue()
     {
         var prefix = $"E2E{Guid.NewGuid().ToString("N")[..6].ToUpperInvariant()}-";
         var good = NewClaimsCsv(prefix, Claims);
-        var queue = await new SignInPage(_page, app.BaseUrl).AsDemoAccountAsync(Analyst);
-        var intake = new IntakeView(_page, app.BaseUrl);
+        var queue = await new SignInPage(Page, App.BaseUrl).AsDemoAccountAsync(Analyst);
+        var intake = new IntakeView(Page, App.BaseUrl);
         await intake.GoToAsync();
 
         var stages = await intake.UploadAsync("todays-claims.csv", System.Text.Encoding.UTF8.GetBytes(good));
@@ -36,7 +26,7 @@ public sealed class IntakeFlowTests(AppProcess app) : IClassFixture<AppProcess>,
         Assert.Equal(Claims, first.Queued + first.ScoredOnly);
         Assert.Contains(stages, s => s.StartsWith("Checking every row") || s.StartsWith("Scoring and storing"));
         Assert.Contains(intake.BarValues, v => v is > 0 and <= 100);
-        await Screenshots.SaveAsync(_page, "intake-summary");
+        await Screenshots.SaveAsync(Page, "intake-summary");
 
         // Bad rows: the whole file is refused, each error naming its row and column.
         var bad = Edit(Edit(NewClaimsCsv(prefix + "B", 5), 2, "claimed_amount", "-5"), 4, "loss_date", "2026-13-01");
@@ -45,7 +35,7 @@ public sealed class IntakeFlowTests(AppProcess app) : IClassFixture<AppProcess>,
         Assert.Contains("rejected, nothing stored; 2 error(s) in 5 row(s)", headline);
         Assert.Contains(errors, e => e is { Row: "2", Column: "claimed_amount", Value: "-5" } && e.Problem.Contains("below the smallest allowed value"));
         Assert.Contains(errors, e => e is { Row: "4", Column: "loss_date" } && e.Problem.Contains("yyyy-MM-dd"));
-        await Screenshots.SaveAsync(_page, "intake-errors");
+        await Screenshots.SaveAsync(Page, "intake-errors");
 
         // The same good file again: every claim a duplicate, nothing stored or queued.
         await intake.UploadAsync("todays-claims.csv", System.Text.Encoding.UTF8.GetBytes(good));
@@ -56,7 +46,7 @@ public sealed class IntakeFlowTests(AppProcess app) : IClassFixture<AppProcess>,
         await queue.GoToAsync();
         await queue.SearchAsync(prefix, expectedRows: Math.Min(first.Queued, 25));
         // The grid held 25 rows before the search too: wait until the rows shown are the searched ones.
-        await _page.WaitForFunctionAsync(
+        await Page.WaitForFunctionAsync(
             "p => { const links = [...document.querySelectorAll('[data-testid=claim-link]')]; return links.length > 0 && links.every(a => a.textContent.trim().startsWith(p)); }",
             prefix);
         var shown = await queue.ClaimNumbersAsync();

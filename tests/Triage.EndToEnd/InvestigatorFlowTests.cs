@@ -4,29 +4,19 @@ using Triage.EndToEnd.Pages;
 namespace Triage.EndToEnd;
 
 /// <summary>One investigator's morning in a real browser against the app started from its build output.</summary>
-public sealed class InvestigatorFlowTests(AppProcess app) : IClassFixture<AppProcess>, IAsyncLifetime
+public sealed class InvestigatorFlowTests(AppProcess app) : OneBrowserTest(app)
 {
     // A demo investigator (seed-cases/team.json) who works motor claims.
     private const string Investigator = "Maren Quillfeather";
-    private readonly Browser _browser = new();
-    private IPage _page = default!;
-
-    public async Task InitializeAsync()
-    {
-        await _browser.InitializeAsync();
-        _page = await _browser.Context.NewPageAsync();
-    }
-
-    public Task DisposeAsync() => _browser.DisposeAsync();
 
     [Fact]
     public async Task Sign_in_move_with_keys_take_next_work_the_case_and_close_it()
     {
-        var queue = await new SignInPage(_page, app.BaseUrl).AsDemoAccountAsync(Investigator);
+        var queue = await new SignInPage(Page, App.BaseUrl).AsDemoAccountAsync(Investigator);
         await queue.ShowAsync("AllOpen");
         var claims = await queue.ClaimNumbersAsync();
         Assert.True(claims.Count >= 2, $"the queue shows {claims.Count} rows");
-        await Screenshots.SaveAsync(_page, "queue");
+        await Screenshots.SaveAsync(Page, "queue");
 
         // Keyboard only: j, j, k lands on the first row again; Enter opens it.
         await queue.PressAsync("j");
@@ -41,7 +31,7 @@ public sealed class InvestigatorFlowTests(AppProcess app) : IClassFixture<AppPro
         await queue.GoToAsync();
         var taken = await queue.TakeNextAsync();
         await taken.WaitForDriversAndChecksAsync();
-        await Screenshots.SaveAsync(_page, "case");
+        await Screenshots.SaveAsync(Page, "case");
         var number = await taken.ClaimNumberAsync();
         var takenId = taken.Id;
 
@@ -51,8 +41,8 @@ public sealed class InvestigatorFlowTests(AppProcess app) : IClassFixture<AppPro
         Assert.Equal([number], await queue.ClaimNumbersAsync());
 
         // Work the taken case: tick a check, download the report, record a verdict.
-        await _page.GotoAsync(new Uri(app.BaseUrl, $"cases/{takenId}").ToString());
-        var work = await CaseView.WaitAsync(_page);
+        await Page.GotoAsync(new Uri(App.BaseUrl, $"cases/{takenId}").ToString());
+        var work = await CaseView.WaitAsync(Page);
         await work.WaitForDriversAndChecksAsync();
         await work.TickFirstCheckAsync("Policy bought online two weeks before the loss");
         var pdf = await work.DownloadReportAsync();
@@ -65,6 +55,6 @@ public sealed class InvestigatorFlowTests(AppProcess app) : IClassFixture<AppPro
         await queue.SearchAsync(number, expectedRows: 0);
 
         // The whole day ran under the content security policy without it blocking anything.
-        Assert.Empty(_browser.CspViolations);
+        Assert.Empty(CspViolations);
     }
 }
