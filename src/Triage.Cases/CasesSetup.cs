@@ -72,10 +72,13 @@ public static class CasesSetup
         {
             // One statement per command: Microsoft.Data.Sqlite re-prepares every statement of a multi-statement
             // batch, and bench `intake` stored claims twice as fast unbatched (measured here, 2 cores).
-            s.AddDbContext<TriageDbContext, SqliteTriageDbContext>((sp, o) => o.UseSqlite(SqliteConnection(sp), x => x.MaxBatchSize(1)));
+            s.AddDbContext<TriageDbContext, SqliteTriageDbContext>((sp, o) => o.UseSqlite(SqliteConnection(sp), x => x.MaxBatchSize(1))
+                .AddInterceptors(sp.GetRequiredService<SaveChangesTurns>()));
+            s.AddSingleton<SaveChangesTurns>();
             s.AddSingleton<IInstanceNotices, SingleInstance>();
             s.AddSingleton<IClusterLocks, SingleInstanceLocks>();
         }
+        s.AddSingleton<SqliteWriteTurns>();
         s.AddSingleton<InstanceId>();
         s.AddSingleton<TriageMetrics>();
         s.AddSingleton<ServingModelWatch>();

@@ -28,7 +28,8 @@ public sealed class ClaimIntake(
     AuditSampler sampler,
     TimeProvider clock,
     ILogger<ClaimIntake> log,
-    TriageMetrics metrics)
+    TriageMetrics metrics,
+    SqliteWriteTurns turns)
 {
     private const int Attempts = 3;
 
@@ -155,6 +156,7 @@ public sealed class ClaimIntake(
                     selection is not null ? CaseOpener.Open(s, version, playbook, now, dueDays, by, selection) : null);
             })];
 
+        await using var turn = await turns.TakeAsync(db, ct);
         await using var tx = await db.Database.BeginTransactionAsync(ct);
         using var writer = new ScoredClaimWriter(db);
         async Task WriteAsync(Task<List<Built>> scoring)
