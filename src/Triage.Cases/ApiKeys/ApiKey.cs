@@ -31,6 +31,8 @@ public sealed class ApiKey
     public DateTime? LastUsedAt { get; private set; }
     public bool IsActive => RevokedAt is null;
 
+    public void MarkUsed(DateTime at) => LastUsedAt = at;
+
     /// <summary>A new key and its secret: 32 random bytes, base64url, with a recognisable prefix.</summary>
     public static (ApiKey Key, string Secret) Issue(string name, string scope, Actor by, DateTime at)
     {

@@ -49,6 +49,8 @@ public sealed class ApiKeyService(TriageDbContext db, TimeProvider clock)
         return Info(key);
     }
 
+    private static readonly TimeSpan LastUsedPrecision = TimeSpan.FromMinutes(1);
+
     /// <summary>The active key with this secret and scope, or null (unknown, revoked or another scope).</summary>
     public async Task<ApiKey?> AuthenticateAsync(string? secret, string scope, CancellationToken ct = default)
     {
@@ -56,7 +58,15 @@ public sealed class ApiKeyService(TriageDbContext db, TimeProvider clock)
         var hash = ApiKey.Hash(secret.Trim());
         var key = await db.ApiKeys.AsNoTracking().SingleOrDefaultAsync(k => k.SecretHash == hash, ct);
         if (key is null || !key.IsActive || key.Scope != scope) return null;
-        await db.ApiKeys.Where(k => k.Id == key.Id).ExecuteUpdateAsync(u => u.SetProperty(k => k.LastUsedAt, clock.GetUtcNow().UtcDateTime), ct);
+        // "Last used" to the minute is enough for an admin, and a write per request would queue every API call
+        // behind the imports for SQLite's one write lock. A tracked save takes its write turn like any other.
+        var now = clock.GetUtcNow().UtcDateTime;
+        if (key.LastUsedAt is not { } last || now - last >= LastUsedPrecision)
+        {
+            db.ApiKeys.Attach(key);
+            key.MarkUsed(now);
+            await db.SaveChangesAsync(ct);
+        }
         return key;
     }
 
