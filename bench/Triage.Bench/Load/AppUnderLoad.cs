@@ -39,8 +39,10 @@ internal sealed class AppUnderLoad : IAsyncDisposable
         start.Environment["Logging__LogLevel__Default"] = "Warning";
         foreach (var (k, v) in settings) start.Environment[k] = v;
         var process = Process.Start(start) ?? throw new InvalidOperationException("dotnet did not start.");
-        process.OutputDataReceived += (_, _) => { };
-        process.ErrorDataReceived += (_, e) => { if (e.Data is { Length: > 0 } line) Console.Error.WriteLine($"  app: {line}"); };
+        // At Warning level the console logger writes only what went wrong: show it beside the figures.
+        DataReceivedEventHandler show = (_, e) => { if (e.Data is { Length: > 0 } line) Console.Error.WriteLine($"  app: {line}"); };
+        process.OutputDataReceived += show;
+        process.ErrorDataReceived += show;
         process.BeginOutputReadLine();
         process.BeginErrorReadLine();
         var app = new AppUnderLoad(process, url, data, root);
