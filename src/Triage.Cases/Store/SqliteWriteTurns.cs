@@ -78,6 +78,9 @@ public sealed class SaveChangesTurns(SqliteWriteTurns turns) : SaveChangesInterc
     public override void SaveChangesFailed(DbContextErrorEventData e) => Done(e.Context);
     public override Task SaveChangesCanceledAsync(DbContextEventData e, CancellationToken ct = default) { Done(e.Context); return Task.CompletedTask; }
     public override void SaveChangesCanceled(DbContextEventData e) => Done(e.Context);
+    // A concurrency conflict ends the save without the "failed" callback (found by the verdict races): hand on here too.
+    public override ValueTask<InterceptionResult> ThrowingConcurrencyExceptionAsync(ConcurrencyExceptionEventData e, InterceptionResult result, CancellationToken ct = default) { Done(e.Context); return ValueTask.FromResult(result); }
+    public override InterceptionResult ThrowingConcurrencyException(ConcurrencyExceptionEventData e, InterceptionResult result) { Done(e.Context); return result; }
 
     private bool Needs(DbContext? db) => db is not null && db.Database.CurrentTransaction is null && !_holding.TryGetValue(db, out _);
 
