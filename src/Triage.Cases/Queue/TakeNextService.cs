@@ -10,9 +10,10 @@ public sealed record TakenCase(int CaseId, string ClaimNumber, int RiskScore);
 /// <summary>
 /// "Take next": gives the caller the riskiest unassigned open case on their lines. The case's concurrency
 /// token makes the save a conditional UPDATE, so when two people pick the same case at once only one save
-/// lands; the other sees the case as stale and picks again.
+/// lands; the other sees the case as stale and picks again. On SQLite the pick and the save share one write
+/// turn, so a burst of takers queues instead of losing the same race in lockstep.
 /// </summary>
-public sealed class TakeNextService(TriageDbContext db, TimeProvider clock, CaseEvents events)
+public sealed class TakeNextService(TriageDbContext db, TimeProvider clock, CaseEvents events, SqliteWriteTurns turns)
 {
     /// <summary>Enough for every contender in a burst to lose several races and still get a case.</summary>
     public const int MaxAttempts = 50;
@@ -25,6 +26,8 @@ public sealed class TakeNextService(TriageDbContext db, TimeProvider clock, Case
         {
             // Nothing stale from a lost race stays tracked.
             db.ChangeTracker.Clear();
+            await using var turn = await turns.TakeAsync(db, ct);
+            await using var tx = await db.Database.BeginTransactionAsync(ct);
             var user = await db.Users.SingleOrDefaultAsync(u => u.Id == actor.UserId, ct)
                 ?? throw new AccessDeniedException($"{actor.UserName} has no account in this store.");
             // Absence is the lead's plan for the day; the person asks to be marked present rather than overriding it.
@@ -41,6 +44,7 @@ public sealed class TakeNextService(TriageDbContext db, TimeProvider clock, Case
             try
             {
                 await db.SaveChangesAsync(ct);
+                await tx.CommitAsync(ct);
                 events.Publish(next.Id, "case.assigned");
                 return new TakenCase(next.Id, next.ClaimNumber, next.RiskScore);
             }

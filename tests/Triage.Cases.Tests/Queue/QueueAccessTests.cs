@@ -71,7 +71,7 @@ public sealed class QueueAccessTests : IAsyncLifetime
     public async Task Only_investigators_take_the_next_case(string role)
     {
         await using var db = _store.NewContext();
-        var service = new TakeNextService(db, new FixedClock(TestStore.Today), new Triage.Cases.CaseWork.CaseEvents());
+        var service = new TakeNextService(db, new FixedClock(TestStore.Today), new Triage.Cases.CaseWork.CaseEvents(), new Triage.Cases.Store.SqliteWriteTurns());
         var e = await Assert.ThrowsAsync<AccessDeniedException>(() => service.TakeNextAsync(As(_ines, role)));
         Assert.Contains("take the next case", e.Message);
         Assert.NotNull(await service.TakeNextAsync(As(_ines, role, Roles.Investigator)));

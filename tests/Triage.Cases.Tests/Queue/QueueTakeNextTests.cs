@@ -1,7 +1,9 @@
 using Microsoft.EntityFrameworkCore;
+using Microsoft.Extensions.DependencyInjection;
 using Triage.Cases.CaseWork;
 using Triage.Cases.Domain;
 using Triage.Cases.Queue;
+using Triage.Cases.Store;
 using Triage.Cases.Tests.Support;
 
 namespace Triage.Cases.Tests.Queue;
@@ -25,7 +27,7 @@ public sealed class QueueTakeNextTests
     private static async Task<TakenCase?> Take(TestStore store, Actor actor, CaseEvents? events = null)
     {
         await using var db = store.NewContext();
-        return await new TakeNextService(db, new FixedClock(TestStore.Today), events ?? new CaseEvents()).TakeNextAsync(actor);
+        return await new TakeNextService(db, new FixedClock(TestStore.Today), events ?? new CaseEvents(), store.Host.Services.GetRequiredService<SqliteWriteTurns>()).TakeNextAsync(actor);
     }
 
     [Fact]
