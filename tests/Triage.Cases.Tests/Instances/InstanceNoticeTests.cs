@@ -51,9 +51,13 @@ public class InstanceNoticeTests
         using var services = new ServiceCollection().AddMetrics().AddSingleton<TriageMetrics>().BuildServiceProvider();
         var counted = new List<(string Instrument, long Value, string? What)>();
         using var listener = new MeterListener();
-        listener.InstrumentPublished = (instrument, l) => { if (instrument.Meter.Name == TriageMetrics.MeterName) l.EnableMeasurementEvents(instrument); };
+        // Only this provider's meter (the factory hands out one per name): tests running beside this one count on their own.
+        var meter = services.GetRequiredService<IMeterFactory>().Create(TriageMetrics.MeterName);
+        listener.InstrumentPublished = (instrument, l) => { if (ReferenceEquals(instrument.Meter, meter)) l.EnableMeasurementEvents(instrument); };
         listener.SetMeasurementEventCallback<long>((instrument, value, tags, _) =>
-            counted.Add((instrument.Name, value, tags.ToArray().FirstOrDefault(t => t.Key == "what").Value as string)));
+        {
+            lock (counted) counted.Add((instrument.Name, value, tags.ToArray().FirstOrDefault(t => t.Key == "what").Value as string));
+        });
         listener.Start();
         var events = new CaseEvents(metrics: services.GetRequiredService<TriageMetrics>());
         events.Publish(1, "verdict.recorded");
