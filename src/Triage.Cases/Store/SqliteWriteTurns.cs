@@ -8,7 +8,7 @@ namespace Triage.Cases.Store;
 /// SQLite lets one transaction write at a time; the others retry every 150 ms until a 30 s timeout. Under a
 /// stream of imports a short write (a sign-in, an API key's "last used") kept missing the gaps and failed after
 /// 30 s (bench `load`: 500s, 30 s sign-ins). So in this process writers take turns here, in arrival order:
-/// imports around their whole transaction, every other save through <see cref="SaveChangesTurns"/>.
+/// imports and take-next around their whole transaction, every other save through <see cref="SaveChangesTurns"/>.
 /// PostgreSQL locks rows and needs none of this.
 /// </summary>
 public sealed class SqliteWriteTurns
@@ -19,19 +19,19 @@ public sealed class SqliteWriteTurns
     public async Task<IAsyncDisposable> TakeAsync(DbContext db, CancellationToken ct)
     {
         if (!db.Database.IsSqlite()) return NoTurn.Instance;
-        await _turn.WaitAsync(ct);
-        return new Turn(_turn);
+        await EnterAsync(ct);
+        return new Turn(this);
     }
 
-    internal async Task EnterAsync(CancellationToken ct) => await _turn.WaitAsync(ct);
+    internal Task EnterAsync(CancellationToken ct) => _turn.WaitAsync(ct);
     internal void Leave() => _turn.Release();
 
-    private sealed class Turn(SemaphoreSlim turn) : IAsyncDisposable
+    private sealed class Turn(SqliteWriteTurns turns) : IAsyncDisposable
     {
         private int _done;
         public ValueTask DisposeAsync()
         {
-            if (Interlocked.Exchange(ref _done, 1) == 0) turn.Release();
+            if (Interlocked.Exchange(ref _done, 1) == 0) turns.Leave();
             return ValueTask.CompletedTask;
         }
     }
@@ -45,7 +45,7 @@ public sealed class SqliteWriteTurns
 
 /// <summary>
 /// Every SaveChanges outside an explicit transaction waits for the SQLite write turn. Inside one (an import,
-/// a reassignment) the code that opened the transaction decides: imports hold the turn already.
+/// take next, a reassignment) the code that opened the transaction decides: imports and take next hold the turn already.
 /// </summary>
 public sealed class SaveChangesTurns(SqliteWriteTurns turns) : SaveChangesInterceptor
 {
