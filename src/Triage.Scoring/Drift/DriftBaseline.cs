@@ -19,10 +19,11 @@ public sealed record DriftBaseline(int Rows, IReadOnlyList<DriftBins> Fields, Dr
         WithScores(FieldBins(schema, rows), rows, scores);
 
     /// <summary>The feature fields' bins and training shares: they need no model, so training computes them beside the fit.</summary>
-    internal static IReadOnlyList<DriftBins> FieldBins(ClaimSchema schema, IReadOnlyList<LabelledClaim> rows)
+    internal static IReadOnlyList<DriftBins> FieldBins(ClaimSchema schema, IReadOnlyList<LabelledClaim> rows, NumericColumns? numeric = null)
     {
+        numeric ??= NumericColumns.Parse(schema, [.. rows.Select(r => r.Values)]);
         var weights = rows.Select(r => r.Weight).ToArray();
-        // Fields are independent: several at once; a number is parsed once and binned from the parsed value.
+        // Fields are independent: several at once; numbers are binned from the values parsed once for all fields.
         return ParallelMap.Ordered(schema.FeatureNames, name =>
         {
             if (Drivers.FieldStats.KindOf(schema, name) != Drivers.StatKind.Number)
@@ -30,7 +31,7 @@ public sealed record DriftBaseline(int Rows, IReadOnlyList<DriftBins> Fields, Dr
                 var levels = DriftBins.For(schema, name, []);
                 return levels with { Expected = Tally(levels, rows.Select(r => levels.BinOf(schema, r.Values)), weights) };
             }
-            var values = rows.Select(r => ClaimValues.Numeric(schema, r.Values, name)).ToArray();
+            var values = numeric.Of(name);
             var bins = DriftBins.For(schema, name, DecileEdges(values, weights));
             return bins with { Expected = Tally(bins, values.Select(bins.BinOf), weights) };
         });
@@ -52,14 +53,19 @@ public sealed record DriftBaseline(int Rows, IReadOnlyList<DriftBins> Fields, Dr
     /// </summary>
     internal static IReadOnlyList<double> DecileEdges(double[] values, double[] weights)
     {
-        var present = values.Select((v, i) => (Value: v, Weight: weights[i])).Where(p => !double.IsNaN(p.Value)).OrderBy(p => p.Value).ToArray();
-        var total = present.Sum(p => p.Weight);
+        var keep = Enumerable.Range(0, values.Length).Where(i => !double.IsNaN(values[i])).ToArray();
+        var present = Array.ConvertAll(keep, i => values[i]);
+        var presentWeights = Array.ConvertAll(keep, i => weights[i]);
+        // Tied values may come out of the sort in any order: only a value's total weight decides where an edge falls.
+        Array.Sort(present, presentWeights);
+        var total = presentWeights.Sum();
         var edges = new List<double>();
         if (present.Length == 0 || !(total > 0)) return edges;
         var (k, cumulative) = (1, 0.0);
-        foreach (var (value, weight) in present)
+        for (var i = 0; i < present.Length; i++)
         {
-            cumulative += weight;
+            var value = present[i];
+            cumulative += presentWeights[i];
             while (k < Deciles && cumulative >= total * k / Deciles - 1e-12)
             {
                 if (edges.Count == 0 || edges[^1] != value) edges.Add(value);

@@ -19,16 +19,22 @@ public sealed record FieldStats(
     double? Q3 = null,
     IReadOnlyDictionary<string, double>? Shares = null)
 {
-    public static IReadOnlyList<FieldStats> Compute(ClaimSchema schema, IReadOnlyList<IReadOnlyDictionary<string, string?>> claims) =>
-        ParallelMap.Ordered(schema.FeatureNames, name => Compute(schema, name, claims));
+    /// <param name="numeric">The claims' numeric values when already parsed (a retrain shares them with the drift baseline).</param>
+    public static IReadOnlyList<FieldStats> Compute(ClaimSchema schema, IReadOnlyList<IReadOnlyDictionary<string, string?>> claims,
+        NumericColumns? numeric = null)
+    {
+        numeric ??= NumericColumns.Parse(schema, claims);
+        return ParallelMap.Ordered(schema.FeatureNames, name => Compute(schema, name, claims, numeric));
+    }
 
-    private static FieldStats Compute(ClaimSchema schema, string name, IReadOnlyList<IReadOnlyDictionary<string, string?>> claims)
+    private static FieldStats Compute(ClaimSchema schema, string name, IReadOnlyList<IReadOnlyDictionary<string, string?>> claims, NumericColumns numeric)
     {
         var n = claims.Count;
         var kind = KindOf(schema, name);
         if (kind == StatKind.Number)
         {
-            var values = claims.Select(c => ClaimValues.Numeric(schema, c, name)).Where(v => !double.IsNaN(v)).Order().ToArray();
+            var values = Array.FindAll(numeric.Of(name), v => !double.IsNaN(v));
+            Array.Sort(values);
             var missing = n == 0 ? 0 : 1.0 - (double)values.Length / n;
             return values.Length == 0
                 ? new(name, kind, n, missing)

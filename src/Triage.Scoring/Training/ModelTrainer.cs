@@ -43,10 +43,14 @@ public sealed class ModelTrainer(IOptions<ScoringOptions> options)
 
         // What needs no fitted model (the rows' fingerprint, field statistics, the fields' drift bins) is worked
         // out beside the ML.NET fit rather than after it.
-        var beside = Task.Run(() => (
-            Hash: TrainingDataHash.Compute(schema, rows),
-            Stats: FieldStats.Compute(schema, [.. train.Select(r => r.Values)]),
-            DriftFields: DriftBaseline.FieldBins(schema, train)), ct);
+        var beside = Task.Run(() =>
+        {
+            IReadOnlyList<IReadOnlyDictionary<string, string?>> trainValues = [.. train.Select(r => r.Values)];
+            var numeric = NumericColumns.Parse(schema, trainValues);
+            return (Hash: TrainingDataHash.Compute(schema, rows),
+                Stats: FieldStats.Compute(schema, trainValues, numeric),
+                DriftFields: DriftBaseline.FieldBins(schema, train, numeric));
+        }, ct);
         var ml = new MLContext(o.Seed);
         FittedModel fitted;
         try
