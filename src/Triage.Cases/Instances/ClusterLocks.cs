@@ -15,22 +15,33 @@ public enum ClusterLock : long
 public interface IClusterLocks
 {
     /// <returns>The held lock, or null when another instance holds it.</returns>
-    Task<IDisposable?> TryAcquireAsync(ClusterLock name, CancellationToken ct);
+    Task<IHeldLock?> TryAcquireAsync(ClusterLock name, CancellationToken ct);
 
     /// <summary>Waits until the lock is free, then holds it.</summary>
-    Task<IDisposable> AcquireAsync(ClusterLock name, CancellationToken ct);
+    Task<IHeldLock> AcquireAsync(ClusterLock name, CancellationToken ct);
+}
+
+/// <summary>A lock this instance holds; disposing it lets go.</summary>
+public interface IHeldLock : IDisposable
+{
+    /// <summary>
+    /// Whether the lock is still this instance's. A lock can be lost without letting go of it (the database
+    /// session it lives on ends), and work guarded by it must not then be committed as if it were alone.
+    /// </summary>
+    Task<bool> StillHeldAsync(CancellationToken ct);
 }
 
 /// <summary>The SQLite store serves one instance, where the in-process rules (such as <c>RetrainState</c>) already decide.</summary>
 public sealed class SingleInstanceLocks : IClusterLocks
 {
-    public Task<IDisposable?> TryAcquireAsync(ClusterLock name, CancellationToken ct) => Task.FromResult<IDisposable?>(Held.Nothing);
+    public Task<IHeldLock?> TryAcquireAsync(ClusterLock name, CancellationToken ct) => Task.FromResult<IHeldLock?>(Held.Nothing);
 
-    public Task<IDisposable> AcquireAsync(ClusterLock name, CancellationToken ct) => Task.FromResult<IDisposable>(Held.Nothing);
+    public Task<IHeldLock> AcquireAsync(ClusterLock name, CancellationToken ct) => Task.FromResult<IHeldLock>(Held.Nothing);
 
-    private sealed class Held : IDisposable
+    private sealed class Held : IHeldLock
     {
         public static readonly Held Nothing = new();
+        public Task<bool> StillHeldAsync(CancellationToken ct) => Task.FromResult(true);
         public void Dispose() { }
     }
 }
@@ -42,7 +53,7 @@ public sealed class SingleInstanceLocks : IClusterLocks
 /// </summary>
 public sealed class PostgresAdvisoryLocks(IOptions<StorageOptions> storage) : IClusterLocks
 {
-    public async Task<IDisposable?> TryAcquireAsync(ClusterLock name, CancellationToken ct)
+    public async Task<IHeldLock?> TryAcquireAsync(ClusterLock name, CancellationToken ct)
     {
         var conn = await OpenAsync(name, ct);
         try
@@ -58,7 +69,7 @@ public sealed class PostgresAdvisoryLocks(IOptions<StorageOptions> storage) : IC
         return null;
     }
 
-    public async Task<IDisposable> AcquireAsync(ClusterLock name, CancellationToken ct)
+    public async Task<IHeldLock> AcquireAsync(ClusterLock name, CancellationToken ct)
     {
         var conn = await OpenAsync(name, ct);
         try
@@ -95,8 +106,25 @@ public sealed class PostgresAdvisoryLocks(IOptions<StorageOptions> storage) : IC
         return await cmd.ExecuteScalarAsync(ct);
     }
 
-    private sealed class Held(NpgsqlConnection conn) : IDisposable
+    private sealed class Held(NpgsqlConnection conn) : IHeldLock
     {
+        /// <summary>A session-level advisory lock lasts as long as its session: the lock is held while the session answers.</summary>
+        public async Task<bool> StillHeldAsync(CancellationToken ct)
+        {
+            if (conn.State != System.Data.ConnectionState.Open) return false;
+            try
+            {
+                await using var cmd = new NpgsqlCommand("SELECT 1", conn);
+                await cmd.ExecuteScalarAsync(ct);
+                return true;
+            }
+            catch (Exception e) when (e is NpgsqlException or InvalidOperationException)
+            {
+                // The server ended the session (terminated, restarted) or the network dropped it.
+                return false;
+            }
+        }
+
         // Closing the unpooled connection ends the session, and with it the lock.
         public void Dispose() => conn.Dispose();
     }

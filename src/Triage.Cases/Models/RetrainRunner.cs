@@ -89,6 +89,11 @@ public sealed class RetrainRunner(TriageDbContext db, ModelTrainer trainer, Serv
             model.Save(file);
             token.ThrowIfCancellationRequested();
 
+            // Checked last, just before registering: a lost lock means another instance may be retraining too, and two
+            // challengers racing for one version name must not both be written.
+            if (!await state.StillHoldsClusterLockAsync(job.Id, token))
+                throw new InvalidOperationException("This instance lost the retrain lock (its database session for the lock ended), so another " +
+                    "instance may have started a retrain meanwhile; the challenger was not registered. Start the retrain again.");
             var entity = ModelVersion.Register(model.Metadata, Path.GetRelativePath(paths.DataFolder, file), JsonSerializer.Serialize(job.Settings, Json));
             entity.AttachComparison(championVersion.Version, JsonSerializer.Serialize(comparison, Json));
             db.ModelVersions.Add(entity);

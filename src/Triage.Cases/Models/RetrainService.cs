@@ -76,7 +76,7 @@ public sealed class RetrainService(RetrainState state, RetrainQueue queue, IServ
     /// <summary>Takes the lock no other instance may retrain under, or frees this process's slot and says who holds it.</summary>
     private async Task HoldClusterLockAsync(RetrainRun run, CancellationToken ct)
     {
-        IDisposable? held;
+        IHeldLock? held;
         try
         {
             held = await locks.TryAcquireAsync(ClusterLock.Retrain, ct);

@@ -1,3 +1,4 @@
+using Triage.Cases.Instances;
 using Triage.Cases.Operations;
 using Triage.Scoring;
 
@@ -20,7 +21,7 @@ public sealed class RetrainState(TriageMetrics metrics)
 {
     private readonly Lock _gate = new();
     private CancellationTokenSource? _cancel;
-    private IDisposable? _clusterLock;
+    private IHeldLock? _clusterLock;
 
     public RetrainRun? Current { get; private set; }
     public RetrainResult? Last { get; private set; }
@@ -47,7 +48,7 @@ public sealed class RetrainState(TriageMetrics metrics)
     }
 
     /// <summary>Keeps the cross-instance lock for run <paramref name="id"/>; it is released when the run finishes.</summary>
-    internal void Hold(Guid id, IDisposable clusterLock)
+    internal void Hold(Guid id, IHeldLock clusterLock)
     {
         lock (_gate)
         {
@@ -84,6 +85,22 @@ public sealed class RetrainState(TriageMetrics metrics)
         Changed?.Invoke();
     }
 
+    /// <summary>
+    /// Whether run <paramref name="id"/> still holds the cross-instance lock: false once its database session has
+    /// ended, after which another instance may have started a retrain of its own. A run that holds none (a single
+    /// instance) has nothing to lose.
+    /// </summary>
+    internal async Task<bool> StillHoldsClusterLockAsync(Guid id, CancellationToken ct)
+    {
+        IHeldLock? held;
+        lock (_gate)
+        {
+            if (Current?.Id != id) return false;
+            held = _clusterLock;
+        }
+        return held is null || await held.StillHeldAsync(ct);
+    }
+
     internal bool RequestCancel()
     {
         lock (_gate)
@@ -112,7 +129,7 @@ public sealed class RetrainState(TriageMetrics metrics)
     }
 
     /// <returns>The cross-instance lock to dispose outside the gate (closing its connection may take a moment).</returns>
-    private IDisposable? Release()
+    private IHeldLock? Release()
     {
         _cancel?.Dispose();
         _cancel = null;

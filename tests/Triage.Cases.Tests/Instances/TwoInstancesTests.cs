@@ -150,17 +150,58 @@ public class TwoInstancesTests
         Assert.Contains("already running on another instance", refused.Message);
 
         // A "crashes": its session ends without unlocking (as when the process dies and the connection drops).
-        await using (var db = two.NewContext())
-        {
-            var conn = (NpgsqlConnection)db.Database.GetDbConnection();
-            await conn.OpenAsync();
-            await using var kill = new NpgsqlCommand(
-                "SELECT count(pg_terminate_backend(pid)) FROM pg_stat_activity WHERE datname = current_database() AND application_name = 'triage lock Retrain'", conn);
-            Assert.Equal(1L, await kill.ExecuteScalarAsync());
-        }
+        Assert.Equal(1L, await EndRetrainLockSessionsAsync(two));
         using var now = await TakeWhenFreeAsync(locksB);
         Assert.NotNull(now);
         held!.Dispose();
+    }
+
+    [SkippableFact]
+    public async Task A_retrain_whose_lock_session_ends_midway_registers_nothing_and_says_why()
+    {
+        await using var two = await TwoInstances.StartAsync("Postgres", NoticesOnly);
+        var stateA = two.A.Services.GetRequiredService<RetrainState>();
+        var cut = false;
+        stateA.Changed += () =>
+        {
+            // On A's training thread, mid-run: the server ends the session holding A's lock, as a dropped connection
+            // would, while A's process carries on unaware.
+            if (cut || stateA.Current?.Stage != "Training") return;
+            cut = true;
+            Assert.Equal(1L, EndRetrainLockSessionsAsync(two).GetAwaiter().GetResult());
+        };
+        Task<RetrainResult> Retrain() => two.InScopeAsync(two.A, sp => { var r = sp.GetRequiredService<RetrainService>(); return r.RunAsync(Analyst, r.Defaults()); });
+        var result = await Retrain();
+
+        Assert.True(cut);
+        Assert.Equal(RetrainOutcome.Failed, result.Outcome);
+        Assert.Contains("lost the retrain lock", result.Message);
+        Assert.Contains("The serving model is unchanged", result.Message);
+        await using (var db = two.NewContext())
+        {
+            Assert.Equal(["v1"], await db.ModelVersions.Select(v => v.Version).ToListAsync());
+            Assert.Equal(1, await db.AuditEvents.CountAsync(a => a.What == "model.retrain-failed" && a.Detail!.Contains("lost the retrain lock")));
+        }
+        Assert.Equal("v1", two.A.Services.GetRequiredService<ServingModels>().Version);
+        Assert.False(File.Exists(Path.Combine(two.A.Services.GetRequiredService<Triage.Cases.Hosting.TriagePaths>().ModelsFolder, "v2.model")));
+
+        // Nothing is left held or half-written: the next retrain takes the lock and the name.
+        var again = await Retrain();
+        Assert.Equal((RetrainOutcome.Succeeded, "v2"), (again.Outcome, again.Version));
+    }
+
+    /// <summary>Has the server end every session holding a retrain lock and waits until they are gone; returns how many it ended.</summary>
+    private static async Task<long> EndRetrainLockSessionsAsync(TwoInstances two)
+    {
+        const string Sessions = "FROM pg_stat_activity WHERE datname = current_database() AND application_name = 'triage lock Retrain'";
+        await using var db = two.NewContext();
+        var conn = (NpgsqlConnection)db.Database.GetDbConnection();
+        await conn.OpenAsync();
+        await using var kill = new NpgsqlCommand($"SELECT count(pg_terminate_backend(pid)) {Sessions}", conn);
+        var ended = (long)(await kill.ExecuteScalarAsync())!;
+        await using var left = new NpgsqlCommand($"SELECT count(*) {Sessions}", conn);
+        await TwoInstances.EventuallyAsync(() => (long)left.ExecuteScalar()! == 0, "the ended sessions to be gone");
+        return ended;
     }
 
     // The server ends a terminated backend asynchronously: retry briefly rather than assume it is instant.
