@@ -76,7 +76,7 @@ public static class CasesSetup
                 .AddInterceptors(sp.GetRequiredService<SaveChangesTurns>()));
             s.AddSingleton<SaveChangesTurns>();
             s.AddSingleton<IInstanceNotices, SingleInstance>();
-            s.AddSingleton<IClusterLocks, SingleInstanceLocks>();
+            s.AddSingleton<IClusterLocks, FileLocks>();
         }
         s.AddSingleton<SqliteWriteTurns>();
         s.AddSingleton<InstanceId>();

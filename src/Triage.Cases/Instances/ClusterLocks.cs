@@ -11,7 +11,10 @@ public enum ClusterLock : long
     Retrain = 0x5472_6961_6765_0002,
 }
 
-/// <summary>Locks that hold across every instance sharing the store, released when the holder disposes the handle or its process dies.</summary>
+/// <summary>
+/// Locks that hold across every process sharing the store (instances of the app, the command line), released when
+/// the holder disposes the handle or its process dies.
+/// </summary>
 public interface IClusterLocks
 {
     /// <returns>The held lock, or null when another instance holds it.</returns>
@@ -29,21 +32,6 @@ public interface IHeldLock : IDisposable
     /// session it lives on ends), and work guarded by it must not then be committed as if it were alone.
     /// </summary>
     Task<bool> StillHeldAsync(CancellationToken ct);
-}
-
-/// <summary>The SQLite store serves one instance, where the in-process rules (such as <c>RetrainState</c>) already decide.</summary>
-public sealed class SingleInstanceLocks : IClusterLocks
-{
-    public Task<IHeldLock?> TryAcquireAsync(ClusterLock name, CancellationToken ct) => Task.FromResult<IHeldLock?>(Held.Nothing);
-
-    public Task<IHeldLock> AcquireAsync(ClusterLock name, CancellationToken ct) => Task.FromResult<IHeldLock>(Held.Nothing);
-
-    private sealed class Held : IHeldLock
-    {
-        public static readonly Held Nothing = new();
-        public Task<bool> StillHeldAsync(CancellationToken ct) => Task.FromResult(true);
-        public void Dispose() { }
-    }
 }
 
 /// <summary>

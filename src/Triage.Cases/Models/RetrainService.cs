@@ -15,8 +15,8 @@ namespace Triage.Cases.Models;
 /// <summary>
 /// Starts and cancels retrains for analysts and admins. A retrain from the app runs in the background
 /// (<see cref="RetrainWorker"/>); the command line runs one in the foreground through <see cref="RunAsync"/>.
-/// Either way only one runs at a time: in a process through <see cref="RetrainState"/>, across instances
-/// sharing a PostgreSQL store through a cluster lock the run holds until it finishes.
+/// Either way only one runs at a time: in a process through <see cref="RetrainState"/>, across processes sharing
+/// the store (instances, the command line) through a cluster lock the run holds until it finishes.
 /// </summary>
 public sealed class RetrainService(RetrainState state, RetrainQueue queue, IServiceScopeFactory scopes, TriageDbContext db,
     IClusterLocks locks, InstanceId self, IOptions<ScoringOptions> defaults, TimeProvider clock)
@@ -96,8 +96,8 @@ public sealed class RetrainService(RetrainState state, RetrainQueue queue, IServ
         var started = await db.AuditEvents.AsNoTracking().Where(a => a.What == "model.retrain-started")
             .OrderByDescending(a => a.At).ThenByDescending(a => a.Id).FirstOrDefaultAsync(ct);
         var who = started is null ? "" : $" (started by {started.Who} at {started.At:HH:mm} UTC)";
-        throw new DomainRuleException($"A retrain is already running on another instance{who}; only one runs at a time across instances. " +
-            "Wait for it to finish, or cancel it on the instance that runs it.");
+        throw new DomainRuleException($"A retrain is already running on another instance or from the command line{who}; only one runs at a time. " +
+            "Wait for it to finish, or cancel it where it runs.");
     }
 
     /// <summary>The same rules the "Scoring" section is held to on start.</summary>

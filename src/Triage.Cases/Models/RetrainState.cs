@@ -87,8 +87,8 @@ public sealed class RetrainState(TriageMetrics metrics)
 
     /// <summary>
     /// Whether run <paramref name="id"/> still holds the cross-instance lock: false once its database session has
-    /// ended, after which another instance may have started a retrain of its own. A run that holds none (a single
-    /// instance) has nothing to lose.
+    /// ended, after which another instance may have started a retrain of its own. A run that holds none has nothing
+    /// to lose.
     /// </summary>
     internal async Task<bool> StillHoldsClusterLockAsync(Guid id, CancellationToken ct)
     {

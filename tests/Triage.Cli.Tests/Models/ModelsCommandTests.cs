@@ -39,4 +39,22 @@ public sealed class ModelsCommandTests() : TinyStoreCommandTest(400, 20)
         Assert.True(back.Exit == 0, back.Err);
         Assert.Contains("v1\tChampion", Run("models", "list").Out);
     }
+
+    [Fact]
+    public void A_retrain_from_the_command_line_waits_its_turn_behind_one_running_elsewhere_on_the_same_file()
+    {
+        Assert.True(Run("models", "list").Exit == 0);
+        // The app (another process on the same SQLite file) is retraining: it holds the retrain lock next to the database.
+        using (new FileStream(DatabaseFile + ".retrain.lock", FileMode.OpenOrCreate, FileAccess.ReadWrite, FileShare.None))
+        {
+            var refused = Run("retrain", "--trees", "15");
+            Assert.Equal(1, refused.Exit);
+            Assert.Contains("A retrain is already running on another instance or from the command line", refused.Err);
+            Assert.DoesNotContain("v2", Run("models", "list").Out);
+        }
+        // Once that run ends (or its process dies), the lock is free.
+        var retrain = Run("retrain", "--trees", "15");
+        Assert.True(retrain.Exit == 0, retrain.Err);
+        Assert.Contains("Challenger v2 is ready", retrain.Out);
+    }
 }
