@@ -19,8 +19,9 @@ namespace Triage.Web.Tests.Models;
 
 /// <summary>
 /// The models page's activity list follows a retrain while it runs. The page gets the real registry and
-/// retrain service over the real store, but a retrain state and queue of its own that no worker reads, so a
-/// started run stays in progress for as long as the test looks at it.
+/// retrain service over the real store, but a retrain state, queue and locks of its own that no worker reads, so a
+/// started run stays in progress for as long as the test looks at it (and, never ending, holds no lock on the
+/// shared store that the next test's run would wait behind).
 /// </summary>
 public sealed class ModelsPageTests(TriageWebFactory factory) : ComponentTest, IClassFixture<TriageWebFactory>
 {
@@ -32,7 +33,7 @@ public sealed class ModelsPageTests(TriageWebFactory factory) : ComponentTest, I
     private readonly FakeTimeProvider _clock = new(new DateTimeOffset(2031, 3, 2, 9, 0, 0, TimeSpan.Zero).AddDays(Interlocked.Increment(ref _tests)));
 
     private RetrainService Service(IServiceProvider app) => new(_state, _queue, app.GetRequiredService<IServiceScopeFactory>(),
-        app.GetRequiredService<TriageDbContext>(), app.GetRequiredService<IClusterLocks>(), app.GetRequiredService<InstanceId>(),
+        app.GetRequiredService<TriageDbContext>(), new AlwaysFree(), app.GetRequiredService<InstanceId>(),
         app.GetRequiredService<IOptions<ScoringOptions>>(), _clock);
 
     private async Task<Actor> AnalystAsync()
@@ -102,4 +103,12 @@ public sealed class ModelsPageTests(TriageWebFactory factory) : ComponentTest, I
     /// <summary>The top line of "Recent model activity" (newest first); the tests in this class share one store.</summary>
     private static string Newest(IRenderedComponent<ModelsPage> page) =>
         page.FindAll("[data-testid=activity-line]").Select(e => e.TextContent).FirstOrDefault() ?? "";
+
+    private sealed class AlwaysFree : IClusterLocks, IHeldLock
+    {
+        public Task<IHeldLock?> TryAcquireAsync(ClusterLock name, CancellationToken ct) => Task.FromResult<IHeldLock?>(this);
+        public Task<IHeldLock> AcquireAsync(ClusterLock name, CancellationToken ct) => Task.FromResult<IHeldLock>(this);
+        public Task<bool> StillHeldAsync(CancellationToken ct) => Task.FromResult(true);
+        public void Dispose() { }
+    }
 }
