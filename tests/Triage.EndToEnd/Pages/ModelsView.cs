@@ -20,7 +20,9 @@ public sealed class ModelsView(IPage page)
     {
         await page.GetByTestId("nav-models").ClickAsync();
         await page.WaitForURLAsync(url => url.EndsWith("/models"));
-        await Versions.Locator("tbody tr").First.WaitForAsync();
+        // The prerendered rows are replaced when the live page has read the versions again: wait for the live ones
+        // (a click on a row's button in between lands on an element about to be removed).
+        await page.Locator("[data-testid=model-versions][data-live=on] [data-testid^=status-]").First.WaitForAsync(new() { Timeout = 60_000 });
     }
 
     /// <summary>Waits for the live connection: the page is prerendered, and a field filled before it is up is reset.
