@@ -1,4 +1,5 @@
 using Triage.Cases.Hosting;
+using Triage.Cases.Store;
 
 namespace Triage.Cases.Instances;
 
@@ -9,32 +10,19 @@ namespace Triage.Cases.Instances;
 /// </summary>
 public sealed class FileLocks(TriagePaths paths) : IClusterLocks
 {
-    public Task<IHeldLock?> TryAcquireAsync(ClusterLock name, CancellationToken ct) => Task.FromResult<IHeldLock?>(TryOpen(name) is { } file ? new Held(file) : null);
+    public Task<IHeldLock?> TryAcquireAsync(ClusterLock name, CancellationToken ct) =>
+        Task.FromResult<IHeldLock?>(ExclusiveFile.TryOpen(PathOf(name)) is { } file ? new Held(file) : null);
 
     public async Task<IHeldLock> AcquireAsync(ClusterLock name, CancellationToken ct)
     {
         for (var delay = 50; ; delay = Math.Min(2 * delay, 1000))
         {
-            if (TryOpen(name) is { } file) return new Held(file);
+            if (ExclusiveFile.TryOpen(PathOf(name)) is { } file) return new Held(file);
             await Task.Delay(delay, ct);
         }
     }
 
-    private FileStream? TryOpen(ClusterLock name)
-    {
-        var path = $"{paths.SqliteFile}.{(name == ClusterLock.Retrain ? "retrain" : "first-start")}.lock";
-        Directory.CreateDirectory(Path.GetDirectoryName(path)!);
-        try
-        {
-            // FileShare.None is an exclusive flock on Linux (a share lock on Windows), between processes and between
-            // handles of one process alike.
-            return new FileStream(path, FileMode.OpenOrCreate, FileAccess.ReadWrite, FileShare.None);
-        }
-        catch (IOException)
-        {
-            return null;
-        }
-    }
+    private string PathOf(ClusterLock name) => $"{paths.SqliteFile}.{name.ToString().ToLowerInvariant()}.lock";
 
     private sealed class Held(FileStream file) : IHeldLock
     {

@@ -30,20 +30,12 @@ internal static class SqliteMigrationGate
 
     private static async Task<FileStream> AcquireAsync(string path, ILogger log, CancellationToken ct)
     {
-        Directory.CreateDirectory(Path.GetDirectoryName(Path.GetFullPath(path))!);
         for (var (delay, told) = (50, false); ; delay = Math.Min(2 * delay, 1000))
         {
-            try
-            {
-                // FileShare.None is an exclusive flock on Linux (a share lock on Windows): held until disposed or the process ends.
-                return new FileStream(path, FileMode.OpenOrCreate, FileAccess.ReadWrite, FileShare.None);
-            }
-            catch (IOException) when (!ct.IsCancellationRequested)
-            {
-                if (!told) log.LogInformation("Waiting for another process to finish migrating {File}", path);
-                told = true;
-                await Task.Delay(delay, ct);
-            }
+            if (ExclusiveFile.TryOpen(path) is { } file) return file;
+            if (!told) log.LogInformation("Waiting for another process to finish migrating {File}", path);
+            told = true;
+            await Task.Delay(delay, ct);
         }
     }
 }

@@ -16,12 +16,11 @@ public sealed record DriftBaseline(int Rows, IReadOnlyList<DriftBins> Fields, Dr
 
     /// <summary>From the rows a model was fitted on and its probabilities for them.</summary>
     public static DriftBaseline Compute(ClaimSchema schema, IReadOnlyList<LabelledClaim> rows, IReadOnlyList<double> scores) =>
-        WithScores(FieldBins(schema, rows), rows, scores);
+        WithScores(FieldBins(schema, rows, NumericColumns.Parse(schema, [.. rows.Select(r => r.Values)])), rows, scores);
 
     /// <summary>The feature fields' bins and training shares: they need no model, so training computes them beside the fit.</summary>
-    internal static IReadOnlyList<DriftBins> FieldBins(ClaimSchema schema, IReadOnlyList<LabelledClaim> rows, NumericColumns? numeric = null)
+    internal static IReadOnlyList<DriftBins> FieldBins(ClaimSchema schema, IReadOnlyList<LabelledClaim> rows, NumericColumns numeric)
     {
-        numeric ??= NumericColumns.Parse(schema, [.. rows.Select(r => r.Values)]);
         var weights = rows.Select(r => r.Weight).ToArray();
         // Fields are independent: several at once; numbers are binned from the values parsed once for all fields.
         return ParallelMap.Ordered(schema.FeatureNames, name =>

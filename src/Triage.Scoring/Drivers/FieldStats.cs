@@ -19,13 +19,9 @@ public sealed record FieldStats(
     double? Q3 = null,
     IReadOnlyDictionary<string, double>? Shares = null)
 {
-    /// <param name="numeric">The claims' numeric values when already parsed (a retrain shares them with the drift baseline).</param>
-    public static IReadOnlyList<FieldStats> Compute(ClaimSchema schema, IReadOnlyList<IReadOnlyDictionary<string, string?>> claims,
-        NumericColumns? numeric = null)
-    {
-        numeric ??= NumericColumns.Parse(schema, claims);
-        return ParallelMap.Ordered(schema.FeatureNames, name => Compute(schema, name, claims, numeric));
-    }
+    /// <param name="numeric">The claims' numeric values, parsed once (a retrain shares them with the drift baseline).</param>
+    public static IReadOnlyList<FieldStats> Compute(ClaimSchema schema, IReadOnlyList<IReadOnlyDictionary<string, string?>> claims, NumericColumns numeric) =>
+        ParallelMap.Ordered(schema.FeatureNames, name => Compute(schema, name, claims, numeric));
 
     private static FieldStats Compute(ClaimSchema schema, string name, IReadOnlyList<IReadOnlyDictionary<string, string?>> claims, NumericColumns numeric)
     {

@@ -18,14 +18,7 @@ public sealed class NumericColumns
     {
         var names = schema.FeatureNames.Where(n => FieldStats.KindOf(schema, n) == StatKind.Number).ToArray();
         // Fields are independent: several at once.
-        var columns = ParallelMap.Ordered(names, name =>
-        {
-            var derived = schema.Derived.FirstOrDefault(d => d.Name == name);
-            var values = new double[claims.Count];
-            for (var i = 0; i < values.Length; i++)
-                values[i] = derived is null ? ClaimValues.Number(claims[i], name) : ClaimValues.Derive(derived, claims[i]);
-            return values;
-        });
+        var columns = ParallelMap.Ordered(names, name => claims.Select(c => ClaimValues.Numeric(schema, c, name)).ToArray());
         return new(names.Zip(columns).ToDictionary(p => p.First, p => p.Second, StringComparer.Ordinal));
     }
 
